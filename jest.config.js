@@ -1,0 +1,33 @@
+/**
+ * Three jest projects: pure unit tests (shared/ domain code, server helpers), client component
+ * tests under jest-expo, and server integration tests against the real PostgreSQL started by
+ * scripts/test.sh. End-to-end tests run in Playwright, not here.
+ */
+const tsJest = ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.json' }];
+
+module.exports = {
+  projects: [
+    {
+      displayName: 'unit',
+      testEnvironment: 'node',
+      roots: ['<rootDir>/tests/unit'],
+      transform: { '^.+\\.ts$': tsJest },
+      moduleFileExtensions: ['ts', 'js', 'json'],
+    },
+    {
+      displayName: 'client',
+      preset: 'jest-expo/web',
+      roots: ['<rootDir>/tests/client'],
+    },
+    {
+      displayName: 'server',
+      testEnvironment: 'node',
+      roots: ['<rootDir>/tests/integration'],
+      transform: { '^.+\\.ts$': tsJest },
+      moduleFileExtensions: ['ts', 'js', 'json'],
+      setupFiles: ['<rootDir>/tests/integration/env.ts'],
+      globalSetup: '<rootDir>/tests/integration/global-setup.ts',
+      testTimeout: 30000,
+    },
+  ],
+};

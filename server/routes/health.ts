@@ -1,0 +1,16 @@
+/** GET /api/health: is the server up and can it reach PostgreSQL. */
+import { Router } from 'express';
+import type { DataSource } from 'typeorm';
+
+export function healthRoutes(dataSource: DataSource) {
+  const router = Router();
+  router.get('/health', async (_req, res) => {
+    try {
+      await dataSource.query('SELECT 1');
+      res.json({ status: 'ok', database: 'up' });
+    } catch {
+      res.status(503).json({ status: 'degraded', database: 'down' });
+    }
+  });
+  return router;
+}

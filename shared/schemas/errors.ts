@@ -1,0 +1,25 @@
+/** The one error shape every API route answers with. */
+import { z } from 'zod';
+
+export const apiErrorSchema = z.object({
+  error: z.object({
+    code: z.string(),
+    message: z.string(),
+    /** Per-field messages for validation errors, keyed by the field's path ("email", "skaterId"). */
+    fields: z.record(z.string(), z.string()).optional(),
+  }),
+});
+export type ApiError = z.infer<typeof apiErrorSchema>;
+
+/** Turns zod issues into one readable sentence and a per-field map (first message per field). */
+export function describeIssues(issues: readonly { path: PropertyKey[]; message: string }[]) {
+  const fields: Record<string, string> = {};
+  for (const issue of issues) {
+    const key = issue.path.map(String).join('.') || '_';
+    if (!(key in fields)) fields[key] = issue.message;
+  }
+  const message = Object.entries(fields)
+    .map(([key, text]) => (key === '_' ? text : `${key}: ${text}`))
+    .join('; ');
+  return { message, fields };
+}
