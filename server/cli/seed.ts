@@ -4,7 +4,8 @@
  */
 import { createDataSource } from '../data-source';
 import { hashPassword } from '../lib/passwords';
-import { DEMO_PASSWORD, demoGroups, demoSkaters, demoTeam, demoUsers } from '../seed/demo';
+import { insertDefaultCues } from '../services/cues';
+import { DEMO_PASSWORD, demoCueIds, demoGroups, demoSkaters, demoTeam, demoUsers } from '../seed/demo';
 
 async function main() {
   const url = process.env.DATABASE_URL;
@@ -29,6 +30,7 @@ async function main() {
            SELECT $1, * FROM unnest($2::uuid[], $3::text[], $4::uuid[])`,
           [demoTeam.id, demoSkaters.map((s) => s.id), demoSkaters.map((s) => s.displayName), demoSkaters.map((s) => s.groupId)],
         );
+        await insertDefaultCues(tx, demoTeam.id, demoCueIds);
         for (const u of demoUsers) {
           await tx.query(`INSERT INTO users (id, email, password_hash, display_name) VALUES ($1, $2, $3, $4)`, [u.id, u.email, passwordHash, u.displayName]);
           await tx.query(`INSERT INTO memberships (team_id, user_id, role, skater_id) VALUES ($1, $2, $3, $4)`, [demoTeam.id, u.id, u.role, u.skaterId]);

@@ -1,4 +1,5 @@
 /** Every migration, in order. New migrations are appended here as classes (no glob loading). */
 import { Foundation1764650000000 } from './1764650000000-foundation';
+import { CueLibrary1764660000000 } from './1764660000000-cue-library';
 
-export const migrations = [Foundation1764650000000];
+export const migrations = [Foundation1764650000000, CueLibrary1764660000000];

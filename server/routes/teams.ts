@@ -9,6 +9,7 @@ import { invitationCreateSchema, isCoachRole, skaterCreateSchema, type Member, t
 import { requireTeamRole, requireUser } from '../lib/auth';
 import { conflict, notFound, parse } from '../lib/errors';
 import { Invitation, Skater, SkaterGroup } from '../entities';
+import { listCues } from '../services/cues';
 import { createInvitation, toInvitationDto } from '../services/invitations';
 import { z } from 'zod';
 
@@ -63,6 +64,11 @@ export function teamRoutes(dataSource: DataSource) {
     const row = { teamId, id, displayName: input.displayName, groupId: input.groupId ?? null, userId: null };
     await dataSource.getRepository(Skater).insert(row);
     res.status(201).json(toSkaterDto(row as Skater));
+  });
+
+  /** The cue library (archived cues included, flagged): coaches record with it; skaters read cues by it. */
+  router.get('/teams/:teamId/cues', member, async (req, res) => {
+    res.json(await listCues(dataSource, req.membership!.teamId));
   });
 
   router.get('/teams/:teamId/members', coach, async (req, res) => {

@@ -42,3 +42,6 @@ export const demoUsers = [
   { id: '0193a000-0000-7000-8000-000000000204', displayName: 'Fenna Dykstra', email: `fenna.dykstra@${DEMO_DOMAIN}`, role: 'skater', skaterId: demoSkaters[0].id },
   { id: '0193a000-0000-7000-8000-000000000205', displayName: 'Gerrit Dykstra', email: `gerrit.dykstra@${DEMO_DOMAIN}`, role: 'guardian', skaterId: demoSkaters[0].id },
 ] as const;
+
+/** Fixed ids for the demo team's copy of the default cue library. */
+export const demoCueIds = Array.from({ length: 64 }, (_, index) => `0193a000-0000-7000-8000-0000000003${String(index).padStart(2, '0')}`);

@@ -8,6 +8,7 @@ import { sendMail } from '../lib/mailer';
 import { dummyPasswordHash, hashPassword, verifyPassword } from '../lib/passwords';
 import { hashToken, randomToken } from '../lib/tokens';
 import { Membership, PasswordReset, Team, User } from '../entities';
+import { insertDefaultCues } from './cues';
 import { issueSession, revokeAllForUser, type IssuedSession } from './sessions';
 
 export async function signUp(dataSource: DataSource, input: SignUpInput): Promise<IssuedSession> {
@@ -25,6 +26,7 @@ export async function signUp(dataSource: DataSource, input: SignUpInput): Promis
     const teamId = uuidv7();
     await tx.getRepository(Team).insert({ id: teamId, name: input.teamName });
     await tx.getRepository(Membership).insert({ teamId, userId: user.id, role: 'head_coach', skaterId: null });
+    await insertDefaultCues(tx, teamId);
     return issueSession(tx, user);
   });
 }

@@ -1,3 +1,4 @@
 export * from './auth';
 export * from './team';
 export * from './errors';
+export * from './cues';

@@ -1,0 +1,36 @@
+/** The team's cue library on the server: the default set for a new team, and reading it. */
+import type { DataSource, EntityManager } from 'typeorm';
+import { v7 as uuidv7 } from 'uuid';
+import { defaultCueList } from '../../shared/cues';
+import type { Cue } from '../../shared/schemas';
+
+/** Gives a new team the default library (one multi-row insert). */
+export async function insertDefaultCues(db: DataSource | EntityManager, teamId: string, ids?: string[]) {
+  const list = defaultCueList;
+  await db.query(
+    `INSERT INTO cues (team_id, id, phase, label, sort_order)
+     SELECT $1, * FROM unnest($2::uuid[], $3::text[], $4::text[], $5::int[])`,
+    [
+      teamId,
+      list.map((_, index) => ids?.[index] ?? uuidv7()),
+      list.map((c) => c.phase),
+      list.map((c) => c.label),
+      list.map((c) => c.sortOrder),
+    ],
+  );
+}
+
+export async function listCues(db: DataSource, teamId: string): Promise<Cue[]> {
+  const rows: { id: string; phase: Cue['phase']; label: string; sort_order: number; archived_at: Date | null }[] =
+    await db.query(
+      `SELECT id, phase, label, sort_order, archived_at FROM cues WHERE team_id = $1 ORDER BY phase, sort_order, label`,
+      [teamId],
+    );
+  return rows.map((r) => ({
+    id: r.id,
+    phase: r.phase,
+    label: r.label,
+    sortOrder: r.sort_order,
+    archived: r.archived_at !== null,
+  }));
+}

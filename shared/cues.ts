@@ -1,0 +1,55 @@
+/**
+ * The cue library's phases and the default library a new team starts with: about thirty short
+ * technique cues in the trade's plain terms, in Boardside's own wording. A head coach can add,
+ * rename, reorder and archive cues; archived cues keep their history.
+ */
+import { z } from 'zod';
+
+export const phases = ['start', 'opening', 'straight', 'curve', 'exit', 'pacing'] as const;
+export const phaseSchema = z.enum(phases, { error: `Phase must be one of: ${phases.join(', ')}` });
+export type Phase = z.infer<typeof phaseSchema>;
+
+export const phaseLabels: Record<Phase, string> = {
+  start: 'Start',
+  opening: 'Opening strokes',
+  straight: 'Straight',
+  curve: 'Curve',
+  exit: 'Curve exit',
+  pacing: 'Pacing',
+};
+
+export const CUE_LABEL_MAX = 60;
+
+export const cueLabelSchema = z
+  .string({ error: 'Cue text is required' })
+  .trim()
+  .min(2, 'Cue text must be at least 2 characters')
+  .max(CUE_LABEL_MAX, `Cue text must be at most ${CUE_LABEL_MAX} characters`);
+
+export const defaultCues: Record<Phase, string[]> = {
+  start: ['Sit lower in the set', 'Weight over the front blade', 'Still at "ready"', 'Explode on the gun', 'Arms drive the first steps'],
+  opening: ['Short, quick strokes', 'Stay low out of the start', 'Push to the side, not back', 'Build into glide', 'Eyes up the lane'],
+  straight: [
+    'Deeper knee bend',
+    'Full push to the side',
+    'Set down under the hip',
+    'Flat back, quiet shoulders',
+    'Longer glide',
+    'Bring the leg back under',
+  ],
+  curve: [
+    'Lean in from the ankle',
+    'Crossover under the body',
+    'Right leg pushes under',
+    'Head level in the curve',
+    'Hug the blocks',
+    'Stay low, do not stand up',
+  ],
+  exit: ['Accelerate out of the curve', 'Long first stroke off the curve', 'Stay low onto the straight', 'Straight line out of the exit'],
+  pacing: ['Opener too hot', 'Even laps', 'Hold the lap time', 'Relax the shoulders late', 'Race through the line'],
+};
+
+/** The default library flattened in display order. */
+export const defaultCueList = phases.flatMap((phase) =>
+  defaultCues[phase].map((label, index) => ({ phase, label, sortOrder: index + 1 })),
+);
