@@ -6,6 +6,7 @@
 const tsJest = ['ts-jest', { tsconfig: '<rootDir>/server/tsconfig.json' }];
 
 module.exports = {
+  testTimeout: 30000,
   projects: [
     {
       displayName: 'unit',
@@ -27,7 +28,6 @@ module.exports = {
       moduleFileExtensions: ['ts', 'js', 'json'],
       setupFiles: ['<rootDir>/tests/integration/env.ts'],
       globalSetup: '<rootDir>/tests/integration/global-setup.ts',
-      testTimeout: 30000,
     },
   ],
 };

@@ -97,6 +97,11 @@ export const invitationCreateSchema = z
   .refine((value) => value.role === 'coach' || value.skaterId !== undefined, {
     error: 'A skater or guardian invitation must name a skater profile',
     path: ['skaterId'],
+  })
+  // The database refuses a coach invitation linked to a skater (ck_invitations_skater_link).
+  .refine((value) => value.role !== 'coach' || value.skaterId === undefined, {
+    error: 'A coach invitation does not name a skater profile',
+    path: ['skaterId'],
   });
 export type InvitationCreateInput = z.infer<typeof invitationCreateSchema>;
 

@@ -2,3 +2,4 @@ export * from './auth';
 export * from './team';
 export * from './errors';
 export * from './cues';
+export * from './board';

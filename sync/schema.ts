@@ -1,0 +1,89 @@
+/**
+ * The device database's schema, versioned with `PRAGMA user_version`. Each entry upgrades from
+ * the previous version; never edit a shipped entry, append a new one.
+ *
+ * One database file serves every user who signs in on the device (browsers allow only a few
+ * per origin), so every row carries its team_id.
+ */
+import type { SqlDriver } from './driver';
+
+export const deviceMigrations: readonly string[] = [
+  // 1: squad, cue library, sessions, observations, outbox.
+  `
+  CREATE TABLE meta (key TEXT PRIMARY KEY, value TEXT NOT NULL);
+  CREATE TABLE groups (
+    id TEXT PRIMARY KEY, team_id TEXT NOT NULL, name TEXT NOT NULL, sort_order INTEGER NOT NULL DEFAULT 0
+  );
+  CREATE INDEX ix_groups_team ON groups (team_id, sort_order);
+  CREATE TABLE skaters (
+    id TEXT PRIMARY KEY, team_id TEXT NOT NULL, display_name TEXT NOT NULL, group_id TEXT,
+    has_account INTEGER NOT NULL DEFAULT 0
+  );
+  CREATE INDEX ix_skaters_team ON skaters (team_id, display_name);
+  CREATE TABLE cues (
+    id TEXT PRIMARY KEY, team_id TEXT NOT NULL, phase TEXT NOT NULL, label TEXT NOT NULL,
+    sort_order INTEGER NOT NULL DEFAULT 0, archived INTEGER NOT NULL DEFAULT 0,
+    hlc TEXT NOT NULL DEFAULT '{}', synced INTEGER NOT NULL DEFAULT 0
+  );
+  CREATE INDEX ix_cues_team ON cues (team_id, phase, sort_order);
+  CREATE TABLE sessions (
+    id TEXT PRIMARY KEY, team_id TEXT NOT NULL, day TEXT NOT NULL, rink TEXT NOT NULL DEFAULT '',
+    title TEXT NOT NULL DEFAULT '', focus_cue_ids TEXT NOT NULL DEFAULT '[]',
+    created_at TEXT NOT NULL, created_by TEXT NOT NULL, hlc TEXT NOT NULL DEFAULT '{}',
+    synced INTEGER NOT NULL DEFAULT 0
+  );
+  CREATE INDEX ix_sessions_team_day ON sessions (team_id, day);
+  CREATE TABLE observations (
+    id TEXT PRIMARY KEY, team_id TEXT NOT NULL, session_id TEXT NOT NULL, skater_id TEXT NOT NULL,
+    cue_id TEXT NOT NULL, mark TEXT NOT NULL CHECK (mark IN ('needs_work', 'good')),
+    note TEXT NOT NULL DEFAULT '', note_shared INTEGER NOT NULL DEFAULT 0,
+    created_at TEXT NOT NULL, created_by TEXT NOT NULL, deleted INTEGER NOT NULL DEFAULT 0,
+    hlc TEXT NOT NULL DEFAULT '{}',
+    -- 1 once the server has acknowledged the record: from then on a delete must be a tombstone.
+    synced INTEGER NOT NULL DEFAULT 0
+  );
+  CREATE INDEX ix_observations_session ON observations (session_id, created_at);
+  CREATE INDEX ix_observations_skater ON observations (team_id, skater_id, created_at);
+  CREATE TABLE outbox (
+    seq INTEGER PRIMARY KEY AUTOINCREMENT,
+    op_id TEXT NOT NULL UNIQUE,
+    team_id TEXT NOT NULL,
+    user_id TEXT NOT NULL,
+    tbl TEXT NOT NULL,
+    record_id TEXT NOT NULL,
+    kind TEXT NOT NULL CHECK (kind IN ('upsert', 'delete')),
+    fields TEXT NOT NULL,
+    hlc TEXT NOT NULL,
+    attempts INTEGER NOT NULL DEFAULT 0,
+    last_error TEXT,
+    status TEXT NOT NULL DEFAULT 'pending' CHECK (status IN ('pending', 'rejected')),
+    -- Set when a push carried this op: the server may have applied it even if no reply came.
+    sent_at TEXT,
+    created_at TEXT NOT NULL
+  );
+  CREATE INDEX ix_outbox_record ON outbox (tbl, record_id);
+  CREATE INDEX ix_outbox_team_status ON outbox (team_id, status);
+  `,
+];
+
+export const DEVICE_SCHEMA_VERSION = deviceMigrations.length;
+
+/** Brings the database to the latest version, each step in its own transaction. */
+export async function migrateDevice(driver: SqlDriver): Promise<number> {
+  const [{ user_version: current }] = await driver.all<{ user_version: number }>('PRAGMA user_version');
+  if (current > deviceMigrations.length) {
+    throw new Error(`The device database is newer (v${current}) than this app (v${deviceMigrations.length}): update Boardside`);
+  }
+  for (let version = current; version < deviceMigrations.length; version += 1) {
+    await driver.exec('BEGIN');
+    try {
+      await driver.exec(deviceMigrations[version]);
+      await driver.exec(`PRAGMA user_version = ${version + 1}`);
+      await driver.exec('COMMIT');
+    } catch (error) {
+      await driver.exec('ROLLBACK');
+      throw error;
+    }
+  }
+  return deviceMigrations.length;
+}

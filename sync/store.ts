@@ -1,0 +1,556 @@
+/**
+ * The device store: everything the board needs, on the device, with or without a network.
+ *
+ * Every change writes the row and its outbox entry in one transaction (shared/SYNC.md, "On the
+ * device"): ids are UUID v7 made here, and each changed field carries a hybrid-logical-clock value
+ * so that the server can settle edit conflicts per field. Components never talk to SQLite: they
+ * call these methods (through the react-query hooks in store/).
+ */
+import { v5 as uuidv5, v7 as uuidv7 } from 'uuid';
+import { cueLabelSchema, type Phase } from '../shared/cues';
+import { HybridClock } from '../shared/hlc';
+import {
+  boardSessionPatchSchema,
+  describeIssues,
+  noteSchema,
+  observationPatchSchema,
+  type BoardSession,
+  type BoardSessionPatch,
+  type Cue,
+  type Group,
+  type Mark,
+  type Observation,
+  type ObservationPatch,
+  type Skater,
+} from '../shared/schemas';
+import { SerialQueue, transaction, type SqlDriver, type SqlValue } from './driver';
+import { migrateDevice } from './schema';
+
+/** A change the store refuses, with a message fit to show the coach. */
+export class StoreError extends Error {}
+
+export type SyncedTable = 'observations' | 'sessions' | 'cues';
+
+export interface OutboxEntry {
+  seq: number;
+  opId: string;
+  teamId: string;
+  userId: string;
+  table: SyncedTable;
+  recordId: string;
+  kind: 'upsert' | 'delete';
+  fields: Record<string, unknown>;
+  hlc: Record<string, string>;
+  attempts: number;
+  lastError: string | null;
+  status: 'pending' | 'rejected';
+  sentAt: string | null;
+  createdAt: string;
+}
+
+export interface RecordInput {
+  teamId: string;
+  userId: string;
+  sessionId: string;
+  skaterIds: readonly string[];
+  cueId: string;
+  mark: Mark;
+  note?: string;
+  noteShared?: boolean;
+}
+
+export interface StoreOptions {
+  /** Physical clock in ms (tests pin it). */
+  now?: () => number;
+}
+
+/** Fixed namespace for session ids: one session per team and day, the same id on every device. */
+const SESSION_NAMESPACE = '6f1d4b52-8f0e-4f7c-9a51-3c2d7e1b9a40';
+
+/** The local calendar day (YYYY-MM-DD) of a moment: sessions follow the rink's day, not UTC's. */
+export function localDay(ms: number): string {
+  const d = new Date(ms);
+  const pad = (n: number) => String(n).padStart(2, '0');
+  return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}`;
+}
+
+export const sessionIdFor = (teamId: string, day: string) => uuidv5(`${teamId}/${day}`, SESSION_NAMESPACE);
+
+const validate = <T>(schema: { safeParse: (v: unknown) => { success: boolean; data?: T; error?: { issues: { path: PropertyKey[]; message: string }[] } } }, value: unknown): T => {
+  const result = schema.safeParse(value);
+  if (!result.success) throw new StoreError(describeIssues(result.error!.issues).message);
+  return result.data as T;
+};
+
+type ObservationRow = {
+  id: string;
+  team_id: string;
+  session_id: string;
+  skater_id: string;
+  cue_id: string;
+  mark: Mark;
+  note: string;
+  note_shared: number;
+  created_at: string;
+  created_by: string;
+};
+
+const toObservation = (r: ObservationRow): Observation => ({
+  id: r.id,
+  teamId: r.team_id,
+  sessionId: r.session_id,
+  skaterId: r.skater_id,
+  cueId: r.cue_id,
+  mark: r.mark,
+  note: r.note,
+  noteShared: r.note_shared === 1,
+  createdAt: r.created_at,
+  createdBy: r.created_by,
+});
+
+type SessionRow = {
+  id: string;
+  team_id: string;
+  day: string;
+  rink: string;
+  title: string;
+  focus_cue_ids: string;
+  created_at: string;
+  created_by: string;
+};
+
+const toSession = (r: SessionRow): BoardSession => ({
+  id: r.id,
+  teamId: r.team_id,
+  day: r.day,
+  rink: r.rink,
+  title: r.title,
+  focusCueIds: JSON.parse(r.focus_cue_ids) as string[],
+  createdAt: r.created_at,
+  createdBy: r.created_by,
+});
+
+const OBSERVATION_COLUMNS = 'id, team_id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by';
+
+export class DeviceStore {
+  private readonly queue = new SerialQueue();
+  private clock!: HybridClock;
+  private deviceId!: string;
+  private readonly now: () => number;
+
+  private constructor(
+    private readonly db: SqlDriver,
+    options: StoreOptions,
+  ) {
+    this.now = options.now ?? Date.now;
+  }
+
+  /** Opens the store: migrates the schema and restores the device id and clock. */
+  static async open(db: SqlDriver, options: StoreOptions = {}): Promise<DeviceStore> {
+    const store = new DeviceStore(db, options);
+    await migrateDevice(db);
+    const meta = await db.all<{ key: string; value: string }>(`SELECT key, value FROM meta WHERE key IN ('device_id', 'hlc')`);
+    const get = (key: string) => meta.find((m) => m.key === key)?.value;
+    store.deviceId = get('device_id') ?? uuidv7();
+    if (!get('device_id')) await db.run(`INSERT INTO meta (key, value) VALUES ('device_id', ?)`, [store.deviceId]);
+    store.clock = new HybridClock(store.deviceId, store.now, get('hlc'));
+    return store;
+  }
+
+  get device(): string {
+    return this.deviceId;
+  }
+
+  close() {
+    return this.queue.run(() => this.db.close());
+  }
+
+  // ---- writes -------------------------------------------------------------------------------
+
+  private tx<T>(work: () => Promise<T>): Promise<T> {
+    return transaction(this.db, this.queue, async () => {
+      const result = await work();
+      // The clock survives restarts so it never goes back, even if the device clock does.
+      await this.db.run(`INSERT INTO meta (key, value) VALUES ('hlc', ?) ON CONFLICT (key) DO UPDATE SET value = excluded.value`, [
+        this.clock.current(),
+      ]);
+      return result;
+    });
+  }
+
+  private async enqueue(op: {
+    teamId: string;
+    userId: string;
+    table: SyncedTable;
+    recordId: string;
+    kind: 'upsert' | 'delete';
+    fields: Record<string, unknown>;
+    hlc: string;
+  }) {
+    const fieldHlc = Object.fromEntries(Object.keys(op.fields).map((field) => [field, op.hlc]));
+    await this.db.run(
+      `INSERT INTO outbox (op_id, team_id, user_id, tbl, record_id, kind, fields, hlc, created_at)
+       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+      [uuidv7(), op.teamId, op.userId, op.table, op.recordId, op.kind, JSON.stringify(op.fields), JSON.stringify(fieldHlc), new Date(this.now()).toISOString()],
+    );
+    return fieldHlc;
+  }
+
+  /** Merges per-field clock values into a row's `hlc` column. */
+  private async stampRow(table: SyncedTable, id: string, fieldHlc: Record<string, string>) {
+    await this.db.run(`UPDATE ${table} SET hlc = json_patch(hlc, ?) WHERE id = ?`, [JSON.stringify(fieldHlc), id]);
+  }
+
+  /** One tap on a cue chip: an observation for every selected skater, in one transaction. */
+  async recordObservations(input: RecordInput): Promise<Observation[]> {
+    if (input.skaterIds.length === 0) throw new StoreError('Pick at least one skater first');
+    const note = validate<string>(noteSchema, input.note ?? '');
+    const createdAt = new Date(this.now()).toISOString();
+    return this.tx(async () => {
+      const created: Observation[] = [];
+      for (const skaterId of input.skaterIds) {
+        const observation: Observation = {
+          id: uuidv7(),
+          teamId: input.teamId,
+          sessionId: input.sessionId,
+          skaterId,
+          cueId: input.cueId,
+          mark: input.mark,
+          note,
+          noteShared: input.noteShared ?? false,
+          createdAt,
+          createdBy: input.userId,
+        };
+        const hlc = this.clock.now();
+        await this.db.run(
+          `INSERT INTO observations (${OBSERVATION_COLUMNS}, hlc) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, '{}')`,
+          [observation.id, observation.teamId, observation.sessionId, skaterId, observation.cueId, observation.mark, note, observation.noteShared ? 1 : 0, createdAt, input.userId],
+        );
+        const { id: _id, teamId: _team, ...fields } = observation;
+        const fieldHlc = await this.enqueue({ teamId: input.teamId, userId: input.userId, table: 'observations', recordId: observation.id, kind: 'upsert', fields, hlc });
+        await this.stampRow('observations', observation.id, fieldHlc);
+        created.push(observation);
+      }
+      return created;
+    });
+  }
+
+  async updateObservation(id: string, userId: string, patch: ObservationPatch): Promise<Observation> {
+    const changes = validate<ObservationPatch>(observationPatchSchema, patch);
+    return this.tx(async () => {
+      const row = await this.observationRow(id);
+      const fields: Record<string, unknown> = {};
+      const sets: string[] = [];
+      const params: SqlValue[] = [];
+      if (changes.mark !== undefined && changes.mark !== row.mark) {
+        fields.mark = changes.mark;
+        sets.push('mark = ?');
+        params.push(changes.mark);
+      }
+      if (changes.note !== undefined && changes.note !== row.note) {
+        fields.note = changes.note;
+        sets.push('note = ?');
+        params.push(changes.note);
+      }
+      if (changes.noteShared !== undefined && changes.noteShared !== (row.note_shared === 1)) {
+        fields.noteShared = changes.noteShared;
+        sets.push('note_shared = ?');
+        params.push(changes.noteShared ? 1 : 0);
+      }
+      if (sets.length > 0) {
+        await this.db.run(`UPDATE observations SET ${sets.join(', ')} WHERE id = ?`, [...params, id]);
+        const fieldHlc = await this.enqueue({ teamId: row.team_id, userId, table: 'observations', recordId: id, kind: 'upsert', fields, hlc: this.clock.now() });
+        await this.stampRow('observations', id, fieldHlc);
+      }
+      return toObservation(await this.observationRow(id));
+    });
+  }
+
+  /**
+   * Removes observations (undo, or delete from the feed). One that never left the device simply
+   * disappears with its outbox entries, so it never shows up anywhere; one the server may have
+   * seen becomes a tombstone with a delete in the outbox.
+   */
+  async removeObservations(ids: readonly string[], userId: string): Promise<void> {
+    await this.tx(async () => {
+      for (const id of ids) {
+        const row = await this.observationRow(id);
+        const [{ sent, synced }] = await this.db.all<{ sent: number; synced: number }>(
+          `SELECT (SELECT count(*) FROM outbox WHERE tbl = 'observations' AND record_id = ? AND sent_at IS NOT NULL) AS sent,
+                  (SELECT synced FROM observations WHERE id = ?) AS synced`,
+          [id, id],
+        );
+        if (sent === 0 && synced === 0) {
+          await this.db.run(`DELETE FROM outbox WHERE tbl = 'observations' AND record_id = ?`, [id]);
+          await this.db.run(`DELETE FROM observations WHERE id = ?`, [id]);
+        } else {
+          await this.db.run(`UPDATE observations SET deleted = 1 WHERE id = ?`, [id]);
+          await this.enqueue({ teamId: row.team_id, userId, table: 'observations', recordId: id, kind: 'delete', fields: {}, hlc: this.clock.now() });
+        }
+      }
+    });
+  }
+
+  private async observationRow(id: string): Promise<ObservationRow & { deleted: number }> {
+    const [row] = await this.db.all<ObservationRow & { deleted: number }>(
+      `SELECT ${OBSERVATION_COLUMNS}, deleted FROM observations WHERE id = ?`,
+      [id],
+    );
+    if (!row || row.deleted) throw new StoreError('That note no longer exists');
+    return row;
+  }
+
+  /** Today's session for the team: the same id on every device, created on first use. */
+  async startSession(teamId: string, userId: string, day = localDay(this.now())): Promise<BoardSession> {
+    const id = sessionIdFor(teamId, day);
+    const existing = await this.getSession(id);
+    if (existing) return existing;
+    return this.tx(async () => {
+      const again = await this.getSession(id);
+      if (again) return again;
+      const session: BoardSession = {
+        id,
+        teamId,
+        day,
+        rink: '',
+        title: '',
+        focusCueIds: [],
+        createdAt: new Date(this.now()).toISOString(),
+        createdBy: userId,
+      };
+      await this.db.run(
+        `INSERT INTO sessions (id, team_id, day, rink, title, focus_cue_ids, created_at, created_by) VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
+        [id, teamId, day, '', '', '[]', session.createdAt, userId],
+      );
+      const { id: _id, teamId: _team, ...fields } = session;
+      const fieldHlc = await this.enqueue({ teamId, userId, table: 'sessions', recordId: id, kind: 'upsert', fields, hlc: this.clock.now() });
+      await this.stampRow('sessions', id, fieldHlc);
+      return session;
+    });
+  }
+
+  async updateSession(id: string, userId: string, patch: BoardSessionPatch): Promise<BoardSession> {
+    const changes = validate<BoardSessionPatch>(boardSessionPatchSchema, patch);
+    return this.tx(async () => {
+      const session = await this.getSession(id);
+      if (!session) throw new StoreError('That session no longer exists');
+      const fields: Record<string, unknown> = {};
+      if (changes.rink !== undefined && changes.rink !== session.rink) fields.rink = changes.rink;
+      if (changes.title !== undefined && changes.title !== session.title) fields.title = changes.title;
+      if (changes.focusCueIds !== undefined && JSON.stringify(changes.focusCueIds) !== JSON.stringify(session.focusCueIds)) {
+        fields.focusCueIds = changes.focusCueIds;
+      }
+      if (Object.keys(fields).length > 0) {
+        await this.db.run(`UPDATE sessions SET rink = ?, title = ?, focus_cue_ids = ? WHERE id = ?`, [
+          (fields.rink as string) ?? session.rink,
+          (fields.title as string) ?? session.title,
+          JSON.stringify(fields.focusCueIds ?? session.focusCueIds),
+          id,
+        ]);
+        const fieldHlc = await this.enqueue({ teamId: session.teamId, userId, table: 'sessions', recordId: id, kind: 'upsert', fields, hlc: this.clock.now() });
+        await this.stampRow('sessions', id, fieldHlc);
+      }
+      return (await this.getSession(id))!;
+    });
+  }
+
+  // ---- cue library (head coach) -------------------------------------------------------------
+
+  async addCue(teamId: string, userId: string, phase: Phase, label: string): Promise<Cue> {
+    const text = validate<string>(cueLabelSchema, label);
+    return this.tx(async () => {
+      const [{ next }] = await this.db.all<{ next: number }>(
+        `SELECT coalesce(max(sort_order), 0) + 1 AS next FROM cues WHERE team_id = ? AND phase = ?`,
+        [teamId, phase],
+      );
+      const cue: Cue = { id: uuidv7(), phase, label: text, sortOrder: next, archived: false };
+      await this.db.run(`INSERT INTO cues (id, team_id, phase, label, sort_order, archived) VALUES (?, ?, ?, ?, ?, 0)`, [cue.id, teamId, phase, text, next]);
+      const { id: _id, ...fields } = cue;
+      const fieldHlc = await this.enqueue({ teamId, userId, table: 'cues', recordId: cue.id, kind: 'upsert', fields, hlc: this.clock.now() });
+      await this.stampRow('cues', cue.id, fieldHlc);
+      return cue;
+    });
+  }
+
+  async renameCue(id: string, userId: string, label: string): Promise<void> {
+    const text = validate<string>(cueLabelSchema, label);
+    await this.tx(async () => {
+      const cue = await this.cueRow(id);
+      if (cue.label === text) return;
+      await this.db.run(`UPDATE cues SET label = ? WHERE id = ?`, [text, id]);
+      await this.cueChanged(cue.team_id, userId, id, { label: text });
+    });
+  }
+
+  async setCueArchived(id: string, userId: string, archived: boolean): Promise<void> {
+    await this.tx(async () => {
+      const cue = await this.cueRow(id);
+      if ((cue.archived === 1) === archived) return;
+      await this.db.run(`UPDATE cues SET archived = ? WHERE id = ?`, [archived ? 1 : 0, id]);
+      await this.cueChanged(cue.team_id, userId, id, { archived });
+    });
+  }
+
+  /** Moves a cue one place up or down within its phase (swaps order with its neighbour). */
+  async moveCue(id: string, userId: string, direction: 'up' | 'down'): Promise<void> {
+    await this.tx(async () => {
+      const cue = await this.cueRow(id);
+      const siblings = await this.db.all<{ id: string; sort_order: number }>(
+        `SELECT id, sort_order FROM cues WHERE team_id = ? AND phase = ? AND archived = 0 ORDER BY sort_order, label`,
+        [cue.team_id, cue.phase],
+      );
+      const index = siblings.findIndex((s) => s.id === id);
+      const other = siblings[direction === 'up' ? index - 1 : index + 1];
+      if (index < 0 || !other) return;
+      // Renumber the phase densely so equal sort orders cannot make a swap a no-op.
+      const order = siblings.map((s) => s.id);
+      [order[index], order[order.indexOf(other.id)]] = [other.id, id];
+      for (const [position, cueId] of order.entries()) {
+        const sortOrder = position + 1;
+        if (siblings.find((s) => s.id === cueId)!.sort_order === sortOrder) continue;
+        await this.db.run(`UPDATE cues SET sort_order = ? WHERE id = ?`, [sortOrder, cueId]);
+        await this.cueChanged(cue.team_id, userId, cueId, { sortOrder });
+      }
+    });
+  }
+
+  private async cueChanged(teamId: string, userId: string, id: string, fields: Record<string, unknown>) {
+    const fieldHlc = await this.enqueue({ teamId, userId, table: 'cues', recordId: id, kind: 'upsert', fields, hlc: this.clock.now() });
+    await this.stampRow('cues', id, fieldHlc);
+  }
+
+  private async cueRow(id: string) {
+    const [row] = await this.db.all<{ id: string; team_id: string; phase: Phase; label: string; archived: number }>(
+      `SELECT id, team_id, phase, label, archived FROM cues WHERE id = ?`,
+      [id],
+    );
+    if (!row) throw new StoreError('That cue no longer exists');
+    return row;
+  }
+
+  /**
+   * Loads the team's squad and cue library as read from the server. Cues with local edits still
+   * waiting in the outbox keep their local values.
+   */
+  async loadTeam(teamId: string, data: { groups: Group[]; skaters: Skater[]; cues: Cue[] }): Promise<void> {
+    await transaction(this.db, this.queue, async () => {
+      await this.db.run(`DELETE FROM groups WHERE team_id = ?`, [teamId]);
+      for (const g of data.groups) {
+        await this.db.run(`INSERT INTO groups (id, team_id, name, sort_order) VALUES (?, ?, ?, ?)`, [g.id, teamId, g.name, g.sortOrder]);
+      }
+      await this.db.run(`DELETE FROM skaters WHERE team_id = ?`, [teamId]);
+      for (const s of data.skaters) {
+        await this.db.run(`INSERT INTO skaters (id, team_id, display_name, group_id, has_account) VALUES (?, ?, ?, ?, ?)`, [
+          s.id,
+          teamId,
+          s.displayName,
+          s.groupId,
+          s.hasAccount ? 1 : 0,
+        ]);
+      }
+      for (const c of data.cues) {
+        await this.db.run(
+          `INSERT INTO cues (id, team_id, phase, label, sort_order, archived, synced) VALUES (?, ?, ?, ?, ?, ?, 1)
+           ON CONFLICT (id) DO UPDATE SET phase = excluded.phase, label = excluded.label,
+             sort_order = excluded.sort_order, archived = excluded.archived, synced = 1
+           WHERE NOT EXISTS (SELECT 1 FROM outbox WHERE tbl = 'cues' AND record_id = excluded.id)`,
+          [c.id, teamId, c.phase, c.label, c.sortOrder, c.archived ? 1 : 0],
+        );
+      }
+    });
+  }
+
+  // ---- reads --------------------------------------------------------------------------------
+
+  async listGroups(teamId: string): Promise<Group[]> {
+    const rows = await this.db.all<{ id: string; name: string; sort_order: number }>(
+      `SELECT id, name, sort_order FROM groups WHERE team_id = ? ORDER BY sort_order, name`,
+      [teamId],
+    );
+    return rows.map((r) => ({ id: r.id, name: r.name, sortOrder: r.sort_order }));
+  }
+
+  async listSkaters(teamId: string): Promise<Skater[]> {
+    const rows = await this.db.all<{ id: string; display_name: string; group_id: string | null; has_account: number }>(
+      `SELECT id, display_name, group_id, has_account FROM skaters WHERE team_id = ? ORDER BY display_name`,
+      [teamId],
+    );
+    return rows.map((r) => ({ id: r.id, displayName: r.display_name, groupId: r.group_id, hasAccount: r.has_account === 1 }));
+  }
+
+  async listCues(teamId: string): Promise<Cue[]> {
+    const rows = await this.db.all<{ id: string; phase: Phase; label: string; sort_order: number; archived: number }>(
+      `SELECT id, phase, label, sort_order, archived FROM cues WHERE team_id = ? ORDER BY sort_order, label`,
+      [teamId],
+    );
+    return rows.map((r) => ({ id: r.id, phase: r.phase, label: r.label, sortOrder: r.sort_order, archived: r.archived === 1 }));
+  }
+
+  async getSession(id: string): Promise<BoardSession | null> {
+    const [row] = await this.db.all<SessionRow>(
+      `SELECT id, team_id, day, rink, title, focus_cue_ids, created_at, created_by FROM sessions WHERE id = ?`,
+      [id],
+    );
+    return row ? toSession(row) : null;
+  }
+
+  /** The session's notes, newest first (tombstones excluded). */
+  async listObservations(sessionId: string): Promise<Observation[]> {
+    const rows = await this.db.all<ObservationRow>(
+      `SELECT ${OBSERVATION_COLUMNS} FROM observations WHERE session_id = ? AND deleted = 0 ORDER BY created_at DESC, id DESC`,
+      [sessionId],
+    );
+    return rows.map(toObservation);
+  }
+
+  async countObservations(teamId: string): Promise<number> {
+    const [{ n }] = await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM observations WHERE team_id = ? AND deleted = 0`, [teamId]);
+    return n;
+  }
+
+  /** Changes waiting to be sent (not counting rejected ones, which wait for the coach). */
+  async pendingCount(): Promise<number> {
+    const [{ n }] = await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'pending'`);
+    return n;
+  }
+
+  async listOutbox(limit = 500): Promise<OutboxEntry[]> {
+    const rows = await this.db.all<{
+      seq: number;
+      op_id: string;
+      team_id: string;
+      user_id: string;
+      tbl: SyncedTable;
+      record_id: string;
+      kind: 'upsert' | 'delete';
+      fields: string;
+      hlc: string;
+      attempts: number;
+      last_error: string | null;
+      status: 'pending' | 'rejected';
+      sent_at: string | null;
+      created_at: string;
+    }>(`SELECT * FROM outbox ORDER BY seq LIMIT ?`, [limit]);
+    return rows.map((r) => ({
+      seq: r.seq,
+      opId: r.op_id,
+      teamId: r.team_id,
+      userId: r.user_id,
+      table: r.tbl,
+      recordId: r.record_id,
+      kind: r.kind,
+      fields: JSON.parse(r.fields),
+      hlc: JSON.parse(r.hlc),
+      attempts: r.attempts,
+      lastError: r.last_error,
+      status: r.status,
+      sentAt: r.sent_at,
+      createdAt: r.created_at,
+    }));
+  }
+
+  /** The last HLC value this device issued (persisted with every change). */
+  lastClock(): string {
+    return this.clock.current();
+  }
+}
