@@ -122,12 +122,13 @@ function errorHandler(error: unknown, req: Request, res: Response, _next: NextFu
   const dbDown = isConnectionError(error);
   res.status(dbDown ? 503 : 500).json({
     error: dbDown
-      ? { code: 'unavailable', message: 'The database is not reachable right now; try again shortly' }
+      ? { code: 'unavailable', message: 'A service the server needs (database or mail) is not reachable right now; try again shortly' }
       : { code: 'internal', message: 'Something went wrong on the server' },
   });
 }
 
 function isConnectionError(error: unknown): boolean {
   const code = (error as { code?: string })?.code ?? '';
-  return ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', '57P01', '57P03', '08006', '08001'].includes(code);
+  // Node socket codes, PostgreSQL's connection failures, and nodemailer's (mail server down).
+  return ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', '57P01', '57P03', '08006', '08001', 'ESOCKET', 'ECONNECTION', 'ETIMEDOUT'].includes(code);
 }

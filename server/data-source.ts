@@ -18,7 +18,9 @@ export function createDataSource(url: string, poolSize = 10): DataSource {
     migrationsRun: false,
     migrationsTransactionMode: 'each',
     namingStrategy: new SnakeNamingStrategy(),
-    logging: ['error'],
+    // Off: TypeORM's console logger prints a failed query with its parameters (password and token
+    // hashes). Errors still reach the app's error handler, which logs the unexpected ones via pino.
+    logging: false,
     extra: { max: poolSize, application_name: 'boardside' },
   });
 }

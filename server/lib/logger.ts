@@ -2,4 +2,8 @@
 import pino from 'pino';
 import { env } from '../env';
 
-export const logger = pino({ level: env().LOG_LEVEL, redact: ['req.headers.authorization', 'req.headers.cookie'] });
+// err.parameters: a failed TypeORM query carries its parameters (password and token hashes).
+export const logger = pino({
+  level: env().LOG_LEVEL,
+  redact: ['req.headers.authorization', 'req.headers.cookie', 'err.parameters'],
+});

@@ -92,7 +92,7 @@ export function authRoutes(dataSource: DataSource) {
 
   router.post('/auth/password-reset', perIp, async (req, res) => {
     const { email } = parse(passwordResetRequestSchema, req.body);
-    await requestPasswordReset(dataSource, email);
+    requestPasswordReset(dataSource, email);
     res.status(202).json({ ok: true });
   });
 

@@ -4,6 +4,7 @@ import { v7 as uuidv7 } from 'uuid';
 import type { SignInInput, SignUpInput } from '../../shared/schemas';
 import { env } from '../env';
 import { conflict, HttpError, unauthorized } from '../lib/errors';
+import { logger } from '../lib/logger';
 import { sendMail } from '../lib/mailer';
 import { dummyPasswordHash, hashPassword, verifyPassword } from '../lib/passwords';
 import { hashToken, randomToken } from '../lib/tokens';
@@ -39,8 +40,15 @@ export async function signIn(dataSource: DataSource, input: SignInInput): Promis
   return issueSession(dataSource, user);
 }
 
-/** Always succeeds from the caller's view; mails a link only when the account exists. */
-export async function requestPasswordReset(dataSource: DataSource, email: string): Promise<void> {
+/**
+ * Always succeeds from the caller's view and answers in the same time whether or not the account
+ * exists: the lookup, the token and the mail run after the reply has been decided.
+ */
+export function requestPasswordReset(dataSource: DataSource, email: string): void {
+  void sendResetMail(dataSource, email).catch((error) => logger.error({ err: error }, 'password reset mail failed'));
+}
+
+async function sendResetMail(dataSource: DataSource, email: string): Promise<void> {
   const user = await dataSource.getRepository(User).findOneBy({ email });
   if (!user) return;
   const token = randomToken();
@@ -84,6 +92,8 @@ export async function confirmPasswordReset(dataSource: DataSource, token: string
     const users = tx.getRepository(User);
     await users.update({ id: rows[0].user_id }, { passwordHash, updatedAt: new Date() });
     await revokeAllForUser(tx, rows[0].user_id);
+    // Any other reset link for this account dies with this one.
+    await tx.query(`UPDATE password_resets SET used_at = now() WHERE user_id = $1 AND used_at IS NULL`, [rows[0].user_id]);
     return issueSession(tx, await users.findOneByOrFail({ id: rows[0].user_id }));
   });
 }

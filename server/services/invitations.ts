@@ -13,7 +13,7 @@ import type {
 } from '../../shared/schemas';
 import { roleLabels } from '../../shared/schemas';
 import { env } from '../env';
-import { conflict, HttpError, notFound, unauthorized } from '../lib/errors';
+import { badRequest, conflict, HttpError, notFound, unauthorized } from '../lib/errors';
 import { sendMail } from '../lib/mailer';
 import { hashPassword, verifyPassword } from '../lib/passwords';
 import { hashToken, randomToken } from '../lib/tokens';
@@ -66,17 +66,6 @@ export async function createInvitation(
     expiresAt: new Date(Date.now() + env().INVITATION_TTL_DAYS * 86_400_000),
     acceptedAt: null,
   });
-  await dataSource.transaction(async (tx) => {
-    // A newer invitation replaces any pending one for the same person and role.
-    await tx.query(
-      `UPDATE invitations SET expires_at = now()
-        WHERE team_id = $1 AND email = $2 AND role = $3 AND accepted_at IS NULL AND expires_at > now()`,
-      [teamId, input.email, input.role],
-    );
-    await tx.getRepository(Invitation).insert(row);
-  });
-  const saved = await dataSource.getRepository(Invitation).findOneByOrFail({ teamId, id: row.id });
-
   const [team, inviter] = await Promise.all([
     dataSource.getRepository(Team).findOneByOrFail({ id: teamId }),
     dataSource.getRepository(User).findOneByOrFail({ id: invitedBy }),
@@ -93,23 +82,34 @@ export async function createInvitation(
   const link = `${env().PUBLIC_URL}/accept-invite?token=${token}`;
   const about =
     input.role === 'guardian' ? ` as the guardian of ${skater!.displayName}` : input.role === 'skater' ? ` as ${skater!.displayName}` : '';
-  await sendMail({
-    to: input.email,
-    cc: guardians.map((g) => g.email),
-    subject: `${inviter.displayName} invites you to ${team.name} on Boardside`,
-    text: [
-      'Hello,',
-      '',
-      `${inviter.displayName} invites you to join ${team.name} on Boardside as ${roleLabels[input.role].toLowerCase()}${about}.`,
-      'Boardside is the notebook your coaches keep at the rink: cues, lap times and targets.',
-      '',
-      `Open this link within ${env().INVITATION_TTL_DAYS} days to set your password and join:`,
-      '',
-      link,
-      '',
-      'If you did not expect this invitation, you can ignore this message.',
-    ].join('\n'),
+  await dataSource.transaction(async (tx) => {
+    // A newer invitation replaces any pending one for the same person and role.
+    await tx.query(
+      `UPDATE invitations SET expires_at = now()
+        WHERE team_id = $1 AND email = $2 AND role = $3 AND accepted_at IS NULL AND expires_at > now()`,
+      [teamId, input.email, input.role],
+    );
+    await tx.getRepository(Invitation).insert(row);
+    // Sent inside the transaction: if the mail cannot go out, no invitation is left behind.
+    await sendMail({
+      to: input.email,
+      cc: guardians.map((g) => g.email),
+      subject: `${inviter.displayName} invites you to ${team.name} on Boardside`,
+      text: [
+        'Hello,',
+        '',
+        `${inviter.displayName} invites you to join ${team.name} on Boardside as ${roleLabels[input.role].toLowerCase()}${about}.`,
+        'Boardside is the notebook your coaches keep at the rink: cues, lap times and targets.',
+        '',
+        `Open this link within ${env().INVITATION_TTL_DAYS} days to set your password and join:`,
+        '',
+        link,
+        '',
+        'If you did not expect this invitation, you can ignore this message.',
+      ].join('\n'),
+    });
   });
+  const saved = await dataSource.getRepository(Invitation).findOneByOrFail({ teamId, id: row.id });
   return toInvitationDto(saved);
 }
 
@@ -143,6 +143,7 @@ export async function acceptInvitation(dataSource: DataSource, input: Invitation
   if (existing && !(await verifyPassword(input.password, existing.passwordHash))) {
     throw unauthorized('An account with this e-mail exists already: enter its current password to join');
   }
+  if (!existing && !input.displayName) throw badRequest('displayName: Name is required', { displayName: 'Name is required' });
   const passwordHash = existing ? existing.passwordHash : await hashPassword(input.password);
 
   return dataSource.transaction(async (tx) => {
@@ -157,7 +158,7 @@ export async function acceptInvitation(dataSource: DataSource, input: Invitation
     const users = tx.getRepository(User);
     let user = existing;
     if (!user) {
-      user = users.create({ id: uuidv7(), email: pending.email, passwordHash, displayName: input.displayName });
+      user = users.create({ id: uuidv7(), email: pending.email, passwordHash, displayName: input.displayName! });
       await users.insert(user);
     }
     const member = await tx.getRepository(Membership).findOneBy({ teamId: pending.teamId, userId: user.id });

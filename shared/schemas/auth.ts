@@ -41,17 +41,22 @@ export const passwordSchema = z
     error: `Password must be at most ${PASSWORD_MAX_BYTES} bytes (shorter, or fewer accented letters and emoji)`,
   });
 
+/** Control characters (NUL, line breaks, ...) have no place in a name; PostgreSQL refuses NUL outright. */
+const hasNoControlCharacters = (value: string) => !/[\u0000-\u001f\u007f]/.test(value);
+
 export const displayNameSchema = z
   .string({ error: 'Name is required' })
   .trim()
   .min(1, 'Name is required')
-  .max(80, 'Name must be at most 80 characters');
+  .max(80, 'Name must be at most 80 characters')
+  .refine(hasNoControlCharacters, { error: 'Name must not contain line breaks or control characters' });
 
 export const teamNameSchema = z
   .string({ error: 'Team name is required' })
   .trim()
   .min(2, 'Team name must be at least 2 characters')
-  .max(80, 'Team name must be at most 80 characters');
+  .max(80, 'Team name must be at most 80 characters')
+  .refine(hasNoControlCharacters, { error: 'Team name must not contain line breaks or control characters' });
 
 export const signUpSchema = z
   .object({
@@ -108,7 +113,8 @@ export type InvitationCreateInput = z.infer<typeof invitationCreateSchema>;
 export const invitationAcceptSchema = z
   .object({
     token: linkTokenSchema,
-    displayName: displayNameSchema,
+    /** Required for a new account; ignored when the e-mail already has one (it keeps its name). */
+    displayName: displayNameSchema.optional(),
     password: passwordSchema,
   })
   .strict();

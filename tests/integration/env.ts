@@ -12,3 +12,6 @@ process.env.SMTP_HOST ??= '127.0.0.1';
 process.env.SMTP_PORT ??= '2526';
 process.env.MAIL_DIR ??= `${process.cwd()}/.data/mail-test`;
 process.env.PUBLIC_URL ??= 'http://127.0.0.1:8431';
+// Each test file signs up many accounts from one address; rate-limit.test.ts sets its own limits.
+process.env.LOGIN_LIMIT_PER_IP ??= '10000';
+process.env.LOGIN_LIMIT_PER_ACCOUNT ??= '10000';

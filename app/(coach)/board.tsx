@@ -1,0 +1,5 @@
+import { BoardScreen } from '../../components/board/board-screen';
+
+export default function BoardRoute() {
+  return <BoardScreen />;
+}

@@ -1,0 +1,177 @@
+/**
+ * The coach's frame around the four sections (Board, Clock, Evening, Squad).
+ *
+ * Phone: a slim top bar (team, sign out) and a bottom bar of big labelled buttons, reachable with
+ * a thumb at the boards. Wide (>= 1024 px): a left rail with the team, the sections and sign-out,
+ * and the section's own content beside it — a laptop layout, not a stretched phone.
+ *
+ * Built on expo-router's headless tabs so the same triggers drive both layouts.
+ */
+import { TabList, TabSlot, TabTrigger, Tabs, type TabTriggerSlotProps } from 'expo-router/ui';
+import { forwardRef } from 'react';
+import { Pressable, StyleSheet, View, type View as ViewType } from 'react-native';
+import { SafeAreaView } from 'react-native-safe-area-context';
+
+import { roleLabels } from '../../shared/schemas';
+import { useSignOut } from '../../store/auth';
+import { useActiveMembership, useSession } from '../../store/session';
+import { Button, Text, colors, layout, radius, spacing, tapTarget, useBreakpoint } from '../ui';
+import { SectionIcon, type CoachSection } from './tab-icons';
+
+const sections: { name: CoachSection; href: '/board' | '/clock' | '/review' | '/squad'; label: string }[] = [
+  { name: 'board', href: '/board', label: 'Board' },
+  { name: 'clock', href: '/clock', label: 'Clock' },
+  { name: 'review', href: '/review', label: 'Evening' },
+  { name: 'squad', href: '/squad', label: 'Squad' },
+];
+
+type SectionButtonProps = TabTriggerSlotProps & { section: CoachSection; label: string; wide: boolean };
+
+const SectionButton = forwardRef<ViewType, SectionButtonProps>(function SectionButton(
+  { section, label, wide, isFocused, ...pressable },
+  ref,
+) {
+  const ink = isFocused ? (wide ? colors.onPrimary : colors.primary) : colors.inkMuted;
+  return (
+    <Pressable
+      ref={ref}
+      {...pressable}
+      testID={`tab-${section}`}
+      accessibilityRole="tab"
+      accessibilityLabel={label}
+      accessibilityState={{ selected: !!isFocused }}
+      style={[
+        wide ? styles.railButton : styles.barButton,
+        isFocused && (wide ? styles.railButtonActive : styles.barButtonActive),
+      ]}
+    >
+      <SectionIcon section={section} color={ink} />
+      <Text weight={isFocused ? 'bold' : 'regular'} variant={wide ? 'bodyLarge' : 'caption'} style={{ color: ink }}>
+        {label}
+      </Text>
+    </Pressable>
+  );
+});
+
+function SignOutButton() {
+  const signOut = useSignOut();
+  return (
+    <Button
+      label="Sign out"
+      variant="quiet"
+      testID="sign-out"
+      loading={signOut.isPending}
+      onPress={() => signOut.mutate()}
+    />
+  );
+}
+
+export function CoachShell() {
+  const wide = useBreakpoint() === 'wide';
+  const membership = useActiveMembership();
+  const user = useSession((s) => s.user);
+  const teamName = membership?.teamName ?? '';
+  const roleLabel = membership ? roleLabels[membership.role] : '';
+
+  return (
+    <SafeAreaView style={styles.safe} edges={['top', 'bottom', 'left', 'right']}>
+      {/* Phone: column-reverse puts the section bar (first in reading order) at the bottom. */}
+      <Tabs style={wide ? styles.wideRoot : styles.phoneRoot}>
+        <TabList style={wide ? styles.rail : styles.bar} accessibilityRole="tablist" accessibilityLabel="Sections">
+          {wide ? (
+            <View style={styles.railHeader}>
+              <Text variant="title" weight="bold" tone="primary">
+                Boardside
+              </Text>
+              <Text weight="bold" testID="team-name">
+                {teamName}
+              </Text>
+              <Text tone="muted" variant="caption">
+                {user?.displayName} · {roleLabel}
+              </Text>
+            </View>
+          ) : null}
+          {sections.map((s) => (
+            <TabTrigger key={s.name} name={s.name} href={s.href} asChild>
+              <SectionButton section={s.name} label={s.label} wide={wide} />
+            </TabTrigger>
+          ))}
+          {wide ? (
+            <View style={styles.railFooter}>
+              <SignOutButton />
+            </View>
+          ) : null}
+        </TabList>
+        <TabSlot style={styles.slot} />
+        {wide ? null : (
+          <View style={styles.topBar}>
+            <View style={styles.topBarText}>
+              <Text weight="bold" numberOfLines={1} testID="team-name">
+                {teamName}
+              </Text>
+              <Text tone="muted" variant="caption" numberOfLines={1}>
+                {roleLabel}
+              </Text>
+            </View>
+            <SignOutButton />
+          </View>
+        )}
+      </Tabs>
+    </SafeAreaView>
+  );
+}
+
+const styles = StyleSheet.create({
+  safe: { flex: 1, backgroundColor: colors.background },
+  phoneRoot: { flex: 1, flexDirection: 'column-reverse' },
+  wideRoot: { flex: 1, flexDirection: 'row' },
+  slot: { flex: 1 },
+  bar: {
+    flexDirection: 'row',
+    borderTopWidth: 1,
+    borderTopColor: colors.divider,
+    backgroundColor: colors.surface,
+    paddingHorizontal: spacing.xxs,
+  },
+  barButton: {
+    flex: 1,
+    minHeight: tapTarget + 16,
+    alignItems: 'center',
+    justifyContent: 'center',
+    gap: 2,
+    borderTopWidth: 4,
+    borderTopColor: 'transparent',
+  },
+  // Selected: a bold label and a top bar line, not colour alone.
+  barButtonActive: { borderTopColor: colors.primary },
+  topBar: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: spacing.sm,
+    paddingLeft: spacing.md,
+    paddingRight: spacing.xs,
+    minHeight: tapTarget + 8,
+    backgroundColor: colors.surface,
+    borderBottomWidth: 1,
+    borderBottomColor: colors.divider,
+  },
+  topBarText: { flex: 1 },
+  rail: {
+    width: layout.railWidth,
+    flexDirection: 'column',
+    backgroundColor: colors.surfaceSunken,
+    padding: spacing.md,
+    gap: spacing.xs,
+  },
+  railHeader: { gap: spacing.xxs, paddingBottom: spacing.lg, paddingHorizontal: spacing.xs },
+  railButton: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: spacing.sm,
+    minHeight: tapTarget + 8,
+    paddingHorizontal: spacing.md,
+    borderRadius: radius.md,
+  },
+  railButtonActive: { backgroundColor: colors.primary },
+  railFooter: { marginTop: 'auto', alignItems: 'flex-start' },
+});

@@ -1,0 +1,131 @@
+/**
+ * Squad: the team's groups and skaters. The head coach also adds skaters, invites people and sees
+ * open invitations. Phone: one column. Wide: the list on the left, the selected skater and the
+ * forms in a pane beside it.
+ */
+import { useQuery } from '@tanstack/react-query';
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+
+import type { Skater } from '../../shared/schemas';
+import { useActiveMembership } from '../../store/session';
+import { invitationsQuery, squadQuery } from '../../store/team';
+import { Banner, Button, Card, Heading, Loading, Screen, Text, layout, spacing, useBreakpoint } from '../ui';
+import { AddSkaterForm } from './add-skater-form';
+import { InvitationList } from './invitation-list';
+import { InviteForm, type InvitePreset, type InviteRole } from './invite-form';
+import { SkaterDetail } from './skater-detail';
+import { SquadList } from './squad-list';
+
+export function SquadScreen() {
+  const membership = useActiveMembership();
+  const wide = useBreakpoint() === 'wide';
+  const teamId = membership?.teamId ?? '';
+  const isHead = membership?.role === 'head_coach';
+
+  const squad = useQuery({ ...squadQuery(teamId), enabled: !!teamId });
+  // Only the head coach manages invitations; asking as an assistant would just earn a 403.
+  const invitations = useQuery({ ...invitationsQuery(teamId), enabled: !!teamId && isHead });
+
+  const [selectedId, setSelectedId] = useState<string | null>(null);
+  const [preset, setPreset] = useState<InvitePreset | null>(null);
+
+  const skaters = squad.data?.skaters ?? [];
+  const groups = squad.data?.groups ?? [];
+  const selected = skaters.find((s) => s.id === selectedId) ?? null;
+
+  const startInvite = (role: InviteRole, skaterId: string) =>
+    setPreset({ role, skaterId, nonce: Date.now() });
+
+  let listBody;
+  if (squad.isPending) listBody = <Loading label="Loading the squad…" testID="squad-loading" />;
+  else if (squad.isError)
+    listBody = (
+      <View style={styles.stack}>
+        <Banner kind="error" testID="squad-load-error">
+          {squad.error.message}
+        </Banner>
+        <Button label="Try again" variant="secondary" testID="squad-retry" onPress={() => void squad.refetch()} />
+      </View>
+    );
+  else if (squad.data.skaters.length === 0 && squad.data.groups.length === 0)
+    listBody = (
+      <Text tone="muted" testID="squad-empty">
+        No skaters yet.{isHead ? ' Add the first one with the form.' : ''}
+      </Text>
+    );
+  else
+    listBody = (
+      <SquadList
+        squad={squad.data}
+        selectedId={selectedId}
+        onSelect={(s: Skater) => setSelectedId((current) => (current === s.id ? null : s.id))}
+      />
+    );
+
+  const listPane = (
+    <Card style={wide ? styles.listPaneWide : undefined} testID="squad-list-pane">
+      <Heading level={2}>
+        {`Skaters${squad.data ? ` (${squad.data.skaters.length})` : ''}`}
+      </Heading>
+      {listBody}
+    </Card>
+  );
+
+  const detail = selected ? (
+    <SkaterDetail
+      skater={selected}
+      groups={groups}
+      canInvite={isHead}
+      onInvite={startInvite}
+      onClose={() => setSelectedId(null)}
+    />
+  ) : null;
+
+  const manage =
+    isHead && teamId ? (
+      <>
+        <AddSkaterForm teamId={teamId} groups={groups} />
+        <InviteForm teamId={teamId} skaters={skaters} preset={preset} />
+        {invitations.data ? <InvitationList invitations={invitations.data} skaters={skaters} /> : null}
+        {invitations.isError ? (
+          <Banner kind="error" testID="invitations-load-error">
+            {invitations.error.message}
+          </Banner>
+        ) : null}
+      </>
+    ) : (
+      <Banner kind="info" testID="squad-coach-note">
+        Only the head coach can add skaters and invite people.
+      </Banner>
+    );
+
+  return (
+    <Screen testID="squad-home" edges={[]} width={wide ? 'full' : 'content'}>
+      <Heading>Squad</Heading>
+      {wide ? (
+        <View style={styles.panes}>
+          {listPane}
+          <View style={[styles.stack, styles.sidePaneWide]}>
+            {detail}
+            {manage}
+          </View>
+        </View>
+      ) : (
+        <>
+          {/* On a phone the selected skater sits above the list, where the thumb already is. */}
+          {detail}
+          {listPane}
+          {manage}
+        </>
+      )}
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  stack: { gap: spacing.lg },
+  panes: { flexDirection: 'row', gap: spacing.lg, alignItems: 'flex-start', maxWidth: layout.contentMaxWidth },
+  listPaneWide: { flex: 1, minWidth: 320 },
+  sidePaneWide: { width: 460 },
+});

@@ -1,0 +1,179 @@
+/**
+ * The one HTTP client for Boardside's API.
+ *
+ * - Same origin by default ('' on web): the Express server serves the web app and '/api', so the
+ *   HttpOnly refresh cookie travels without CORS. EXPO_PUBLIC_API_URL points elsewhere if needed.
+ * - The access token lives only in memory (the session store hands it over through
+ *   `configureApiAuth`); it is never written to storage where a script could read it.
+ * - On a 401 the client refreshes once (a single shared refresh for concurrent requests) and
+ *   retries; if that fails the session store is told the user is signed out.
+ * - Every failure becomes an ApiRequestError with the server's code, message and per-field map.
+ *
+ * This module imports nothing from the session store, so the store can import it without a cycle.
+ */
+import { apiErrorSchema, sessionSchema, type Session } from '../shared/schemas';
+
+export const API_BASE_URL = (process.env.EXPO_PUBLIC_API_URL ?? '').replace(/\/$/, '');
+
+/** Fails a request that hangs (half-open rink Wi-Fi) instead of leaving a spinner forever. */
+const REQUEST_TIMEOUT_MS = 15_000;
+
+export class ApiRequestError extends Error {
+  readonly status: number;
+  readonly code: string;
+  readonly fields?: Record<string, string>;
+
+  constructor(status: number, code: string, message: string, fields?: Record<string, string>) {
+    super(message);
+    this.name = 'ApiRequestError';
+    this.status = status;
+    this.code = code;
+    this.fields = fields;
+  }
+}
+
+export const isApiRequestError = (value: unknown): value is ApiRequestError => value instanceof ApiRequestError;
+
+/** Wording shown when a request never reached a server answer. */
+export const NETWORK_MESSAGE = 'Cannot reach the Boardside server. Check the connection and try again.';
+
+type AuthBridge = {
+  getAccessToken: () => string | null;
+  /** Called with the new session after a successful refresh. */
+  onRefreshed: (session: Session) => void;
+  /** Called when a refresh is refused: the session is over. */
+  onSignedOut: () => void;
+};
+
+let bridge: AuthBridge = {
+  getAccessToken: () => null,
+  onRefreshed: () => undefined,
+  onSignedOut: () => undefined,
+};
+
+export function configureApiAuth(next: AuthBridge) {
+  bridge = next;
+}
+
+export type RequestOptions = {
+  method?: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
+  body?: unknown;
+  signal?: AbortSignal;
+  /** Skip the refresh-and-retry dance (the auth endpoints themselves). */
+  skipRefresh?: boolean;
+};
+
+async function send(path: string, options: RequestOptions, token: string | null): Promise<Response> {
+  const headers: Record<string, string> = { Accept: 'application/json' };
+  if (options.body !== undefined) headers['Content-Type'] = 'application/json';
+  if (token) headers.Authorization = `Bearer ${token}`;
+
+  const controller = new AbortController();
+  const timer = setTimeout(() => controller.abort(), REQUEST_TIMEOUT_MS);
+  const abortFromCaller = () => controller.abort();
+  options.signal?.addEventListener('abort', abortFromCaller);
+  try {
+    return await fetch(`${API_BASE_URL}${path}`, {
+      method: options.method ?? 'GET',
+      headers,
+      body: options.body === undefined ? undefined : JSON.stringify(options.body),
+      // The refresh token is an HttpOnly cookie: it must ride along on every API call.
+      credentials: 'include',
+      signal: controller.signal,
+    });
+  } catch (cause) {
+    if (options.signal?.aborted) throw cause;
+    throw new ApiRequestError(0, 'network', NETWORK_MESSAGE);
+  } finally {
+    clearTimeout(timer);
+    options.signal?.removeEventListener('abort', abortFromCaller);
+  }
+}
+
+async function readBody(response: Response): Promise<unknown> {
+  if (response.status === 204) return undefined;
+  const text = await response.text();
+  if (!text) return undefined;
+  try {
+    return JSON.parse(text);
+  } catch {
+    return text;
+  }
+}
+
+function toError(response: Response, body: unknown): ApiRequestError {
+  const parsed = apiErrorSchema.safeParse(body);
+  if (parsed.success) {
+    const { code, message, fields } = parsed.data.error;
+    return new ApiRequestError(response.status, code, message, fields);
+  }
+  // Not our API's error shape: a proxy page, a static server without the API, a crash.
+  if (response.status === 429) {
+    return new ApiRequestError(429, 'rate_limited', 'Too many attempts. Wait a minute and try again.');
+  }
+  if (response.status >= 500 || response.status === 404 || response.status === 405 || response.status === 501) {
+    return new ApiRequestError(response.status, 'unavailable', NETWORK_MESSAGE);
+  }
+  return new ApiRequestError(response.status, 'http_error', `The server answered ${response.status}.`);
+}
+
+let refreshInFlight: Promise<Session | null> | null = null;
+
+/**
+ * Exchanges the refresh cookie for a new session. Concurrent callers share one request, because
+ * the server rotates the refresh token and a second parallel refresh would present a spent one.
+ * Resolves to null when the cookie is missing, expired or refused.
+ */
+export function refreshSession(): Promise<Session | null> {
+  if (!refreshInFlight) {
+    refreshInFlight = (async () => {
+      try {
+        const response = await send('/api/auth/refresh', { method: 'POST', skipRefresh: true }, null);
+        if (!response.ok) return null;
+        const parsed = sessionSchema.safeParse(await readBody(response));
+        return parsed.success ? parsed.data : null;
+      } catch {
+        return null;
+      }
+    })().finally(() => {
+      refreshInFlight = null;
+    });
+  }
+  return refreshInFlight;
+}
+
+/** Calls the API and returns the parsed JSON body (undefined for 204). Throws ApiRequestError. */
+export async function apiRequest<T = unknown>(path: string, options: RequestOptions = {}): Promise<T> {
+  const token = bridge.getAccessToken();
+  let response = await send(path, options, token);
+
+  // Only retry requests that carried a token: a 401 from sign-in means a wrong password, not an
+  // expired session.
+  if (response.status === 401 && token && !options.skipRefresh) {
+    const session = await refreshSession();
+    if (session) {
+      bridge.onRefreshed(session);
+      response = await send(path, options, session.accessToken);
+    } else {
+      bridge.onSignedOut();
+    }
+  }
+
+  const body = await readBody(response);
+  if (!response.ok) throw toError(response, body);
+  return body as T;
+}
+
+/** apiRequest + a zod parse of the answer: the client trusts nothing it did not check. */
+export async function apiRequestParsed<T>(
+  path: string,
+  schema: { parse: (value: unknown) => T },
+  options: RequestOptions = {},
+): Promise<T> {
+  const body = await apiRequest<unknown>(path, options);
+  try {
+    return schema.parse(body);
+  } catch {
+    throw new ApiRequestError(502, 'bad_response', 'The server sent an answer this app does not understand. Try reloading.');
+  }
+}
