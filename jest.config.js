@@ -19,6 +19,7 @@ module.exports = {
       displayName: 'client',
       preset: 'jest-expo/web',
       roots: ['<rootDir>/tests/client'],
+      setupFiles: ['<rootDir>/tests/client/setup.ts'],
     },
     {
       displayName: 'server',
