@@ -14,7 +14,7 @@ export PATH="$ROOT/node_modules/.bin:$PATH"
 # Server-side TypeScript runs with the server's compiler options (legacy decorators for TypeORM).
 export TSX_TSCONFIG_PATH="$ROOT/server/tsconfig.json"
 
-log() { printf '\033[1m[boardside]\033[0m %s\n' "$*"; }
+log() { printf '\033[1m[boardside]\033[0m %s\n' "$*" >&2; }
 die() { printf '\033[1;31m[boardside] %s\033[0m\n' "$*" >&2; exit 1; }
 
 as_root() {
@@ -25,7 +25,7 @@ APT_UPDATED=0
 apt_install() {
   if [ "$APT_UPDATED" = 0 ]; then
     log "apt-get update"
-    as_root apt-get update -qq
+    as_root apt-get update -qq >&2
     APT_UPDATED=1
   fi
   log "apt-get install $*"
