@@ -10,6 +10,7 @@ import { useEffect, useState } from 'react';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 
 import { Loading, colors, fonts } from '../components/ui';
+import { registerOfflineShell } from '../store/offline-shell';
 import { createQueryClient } from '../store/query-client';
 import { useSession } from '../store/session';
 
@@ -24,6 +25,7 @@ export default function RootLayout() {
 
   useEffect(() => {
     void bootstrap();
+    registerOfflineShell();
   }, [bootstrap]);
 
   return (

@@ -162,6 +162,7 @@ web_build_needed() {
   local newer
   newer=$(find "$ROOT/app" "$ROOT/components" "$ROOT/store" "$ROOT/sync" "$ROOT/shared" "$ROOT/assets" \
     "$ROOT/app.json" "$ROOT/package-lock.json" "$ROOT/metro.config.js" "$ROOT/babel.config.js" \
+    "$ROOT/scripts/write-service-worker.js" \
     -newer "$ROOT/dist/index.html" -print -quit 2>/dev/null)
   [ -n "$newer" ]
 }
@@ -169,7 +170,8 @@ web_build_needed() {
 build_web() {
   if web_build_needed; then
     log "building the web app (expo export)"
-    (cd "$ROOT" && CI=1 expo export -p web --output-dir dist >"$DATA/web-build.log" 2>&1) \
+    (cd "$ROOT" && CI=1 expo export -p web --output-dir dist >"$DATA/web-build.log" 2>&1 \
+      && node scripts/write-service-worker.js dist >>"$DATA/web-build.log" 2>&1) \
       || { tail -n 40 "$DATA/web-build.log" >&2; die "web build failed (see .data/web-build.log)"; }
   fi
 }

@@ -79,7 +79,16 @@ export function createApp(dataSource: DataSource) {
 
   const dist = config.WEB_DIST ? path.resolve(config.WEB_DIST) : undefined;
   if (dist && existsSync(path.join(dist, 'index.html'))) {
-    app.use(express.static(dist, { index: false, maxAge: '1h' }));
+    app.use(
+      express.static(dist, {
+        index: false,
+        maxAge: '1h',
+        // The service worker must be re-checked on every visit, or a new build would never reach the device.
+        setHeaders: (res, file) => {
+          if (file.endsWith(`${path.sep}sw.js`)) res.setHeader('Cache-Control', 'no-cache');
+        },
+      }),
+    );
     // Every other path is a client route: the single-page app decides what to show.
     app.get('/{*splat}', (_req, res) => {
       res.set('Cache-Control', 'no-cache').sendFile(path.join(dist, 'index.html'));

@@ -117,23 +117,29 @@ function toError(response: Response, body: unknown): ApiRequestError {
   return new ApiRequestError(response.status, 'http_error', `The server answered ${response.status}.`);
 }
 
-let refreshInFlight: Promise<Session | null> | null = null;
+/** What a refresh attempt found: a session, a refusal (signed out), or no server to ask. */
+export type RefreshOutcome = { status: 'ok'; session: Session } | { status: 'refused' } | { status: 'unreachable' };
+
+let refreshInFlight: Promise<RefreshOutcome> | null = null;
 
 /**
  * Exchanges the refresh cookie for a new session. Concurrent callers share one request, because
  * the server rotates the refresh token and a second parallel refresh would present a spent one.
- * Resolves to null when the cookie is missing, expired or refused.
+ * 'refused' means the sign-in is over; 'unreachable' means offline (or the server is down), which
+ * must not sign the coach out at the rink.
  */
-export function refreshSession(): Promise<Session | null> {
+export function refreshSession(): Promise<RefreshOutcome> {
   if (!refreshInFlight) {
-    refreshInFlight = (async () => {
+    refreshInFlight = (async (): Promise<RefreshOutcome> => {
       try {
         const response = await send('/api/auth/refresh', { method: 'POST', skipRefresh: true }, null);
-        if (!response.ok) return null;
+        // 5xx: the server (or its database) is down, which says nothing about the sign-in.
+        if (response.status >= 500) return { status: 'unreachable' };
+        if (!response.ok) return { status: 'refused' };
         const parsed = sessionSchema.safeParse(await readBody(response));
-        return parsed.success ? parsed.data : null;
+        return parsed.success ? { status: 'ok', session: parsed.data } : { status: 'unreachable' };
       } catch {
-        return null;
+        return { status: 'unreachable' };
       }
     })().finally(() => {
       refreshInFlight = null;
@@ -150,11 +156,11 @@ export async function apiRequest<T = unknown>(path: string, options: RequestOpti
   // Only retry requests that carried a token: a 401 from sign-in means a wrong password, not an
   // expired session.
   if (response.status === 401 && token && !options.skipRefresh) {
-    const session = await refreshSession();
-    if (session) {
-      bridge.onRefreshed(session);
-      response = await send(path, options, session.accessToken);
-    } else {
+    const outcome = await refreshSession();
+    if (outcome.status === 'ok') {
+      bridge.onRefreshed(outcome.session);
+      response = await send(path, options, outcome.session.accessToken);
+    } else if (outcome.status === 'refused') {
       bridge.onSignedOut();
     }
   }

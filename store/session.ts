@@ -2,14 +2,17 @@
  * Session state (zustand): who is signed in, their team memberships and which team is active.
  *
  * The access token is kept in memory only; a reload starts in 'loading' and `bootstrap()` trades
- * the HttpOnly refresh cookie for a fresh session (POST /api/auth/refresh). Any failure there —
- * no cookie, expired, server down — lands in 'signedOut' rather than a stuck spinner.
+ * the HttpOnly refresh cookie for a fresh session (POST /api/auth/refresh). A refusal lands in
+ * 'signedOut'. No answer at all (offline at the rink, server down) keeps the coach signed in
+ * from the identity remembered on this device, with `offline` set and no token, until a later
+ * `reconnect()` gets a real session (or a refusal).
  * Team data itself lives in react-query, not here.
  */
 import { create } from 'zustand';
 
 import { isCoachRole, type Membership, type Session, type User } from '../shared/schemas';
 import { configureApiAuth, refreshSession } from './api';
+import { clearIdentity, loadIdentity, saveIdentity } from './identity-cache';
 
 export type SessionStatus = 'loading' | 'signedOut' | 'signedIn';
 
@@ -19,10 +22,14 @@ export type SessionState = {
   user: User | null;
   memberships: Membership[];
   activeTeamId: string | null;
+  /** Signed in from this device's memory, without a server answer yet (no access token). */
+  offline: boolean;
   setSession: (session: Session) => void;
   signOutLocally: () => void;
   setActiveTeam: (teamId: string) => void;
   bootstrap: () => Promise<void>;
+  /** Tries the server again after an offline start; no-op when already online. */
+  reconnect: () => Promise<void>;
 };
 
 /** Keeps the chosen team when it is still among the memberships, else the first one. */
@@ -39,30 +46,56 @@ export const useSession = create<SessionState>()((set, get) => ({
   user: null,
   memberships: [],
   activeTeamId: null,
+  offline: false,
 
-  setSession: (session) =>
+  setSession: (session) => {
+    const activeTeamId = pickActiveTeam(session.memberships, get().activeTeamId);
     set({
       status: 'signedIn',
+      offline: false,
       accessToken: session.accessToken,
       user: session.user,
       memberships: session.memberships,
-      activeTeamId: pickActiveTeam(session.memberships, get().activeTeamId),
-    }),
+      activeTeamId,
+    });
+    saveIdentity({ user: session.user, memberships: session.memberships, activeTeamId });
+  },
 
-  signOutLocally: () =>
-    set({ status: 'signedOut', accessToken: null, user: null, memberships: [], activeTeamId: null }),
+  signOutLocally: () => {
+    clearIdentity();
+    set({ status: 'signedOut', offline: false, accessToken: null, user: null, memberships: [], activeTeamId: null });
+  },
 
   setActiveTeam: (teamId) => {
-    if (get().memberships.some((m) => m.teamId === teamId)) set({ activeTeamId: teamId });
+    const { user, memberships } = get();
+    if (!memberships.some((m) => m.teamId === teamId)) return;
+    set({ activeTeamId: teamId });
+    if (user) saveIdentity({ user, memberships, activeTeamId: teamId });
+  },
+
+  reconnect: async () => {
+    if (!get().offline) return;
+    const outcome = await refreshSession();
+    if (outcome.status === 'ok') get().setSession(outcome.session);
+    else if (outcome.status === 'refused') get().signOutLocally();
   },
 
   bootstrap: () => {
     // Once per app start: React strict mode and fast refresh may call the effect twice.
     if (!bootstrapStarted) {
       bootstrapStarted = (async () => {
-        const session = await refreshSession();
-        if (session) get().setSession(session);
-        else get().signOutLocally();
+        const outcome = await refreshSession();
+        if (outcome.status === 'ok') return get().setSession(outcome.session);
+        const remembered = outcome.status === 'unreachable' ? loadIdentity() : null;
+        if (!remembered) return get().signOutLocally();
+        set({
+          status: 'signedIn',
+          offline: true,
+          accessToken: null,
+          user: remembered.user,
+          memberships: remembered.memberships,
+          activeTeamId: pickActiveTeam(remembered.memberships, remembered.activeTeamId),
+        });
       })();
     }
     return bootstrapStarted;
@@ -79,7 +112,7 @@ configureApiAuth({
 /** Test helper: forget that bootstrap ran. */
 export function resetSessionForTests() {
   bootstrapStarted = null;
-  useSession.setState({ status: 'loading', accessToken: null, user: null, memberships: [], activeTeamId: null });
+  useSession.setState({ status: 'loading', offline: false, accessToken: null, user: null, memberships: [], activeTeamId: null });
 }
 
 /** The membership for the active team, or null. */

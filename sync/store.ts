@@ -57,6 +57,8 @@ export interface RecordInput {
   mark: Mark;
   note?: string;
   noteShared?: boolean;
+  /** Ids for the new observations, one per skater (made by the caller to paint optimistically). */
+  ids?: readonly string[];
 }
 
 export interface StoreOptions {
@@ -204,13 +206,17 @@ export class DeviceStore {
   /** One tap on a cue chip: an observation for every selected skater, in one transaction. */
   async recordObservations(input: RecordInput): Promise<Observation[]> {
     if (input.skaterIds.length === 0) throw new StoreError('Pick at least one skater first');
+    if (input.ids && input.ids.length !== input.skaterIds.length) throw new StoreError('One id per skater is needed');
     const note = validate<string>(noteSchema, input.note ?? '');
     const createdAt = new Date(this.now()).toISOString();
     return this.tx(async () => {
+      const session = await this.getSession(input.sessionId);
+      if (!session) throw new StoreError('Start the session first');
+      await this.ensureSessionQueued(session, input.userId);
       const created: Observation[] = [];
-      for (const skaterId of input.skaterIds) {
+      for (const [index, skaterId] of input.skaterIds.entries()) {
         const observation: Observation = {
-          id: uuidv7(),
+          id: input.ids?.[index] ?? uuidv7(),
           teamId: input.teamId,
           sessionId: input.sessionId,
           skaterId,
@@ -300,7 +306,10 @@ export class DeviceStore {
     return row;
   }
 
-  /** Today's session for the team: the same id on every device, created on first use. */
+  /**
+   * Today's session for the team: the same id on every device, created on first use. Opening the
+   * board alone sends nothing: the session joins the outbox with its first note or edit.
+   */
   async startSession(teamId: string, userId: string, day = localDay(this.now())): Promise<BoardSession> {
     const id = sessionIdFor(teamId, day);
     const existing = await this.getSession(id);
@@ -308,25 +317,25 @@ export class DeviceStore {
     return this.tx(async () => {
       const again = await this.getSession(id);
       if (again) return again;
-      const session: BoardSession = {
-        id,
-        teamId,
-        day,
-        rink: '',
-        title: '',
-        focusCueIds: [],
-        createdAt: new Date(this.now()).toISOString(),
-        createdBy: userId,
-      };
+      const createdAt = new Date(this.now()).toISOString();
       await this.db.run(
-        `INSERT INTO sessions (id, team_id, day, rink, title, focus_cue_ids, created_at, created_by) VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
-        [id, teamId, day, '', '', '[]', session.createdAt, userId],
+        `INSERT INTO sessions (id, team_id, day, rink, title, focus_cue_ids, created_at, created_by) VALUES (?, ?, ?, '', '', '[]', ?, ?)`,
+        [id, teamId, day, createdAt, userId],
       );
-      const { id: _id, teamId: _team, ...fields } = session;
-      const fieldHlc = await this.enqueue({ teamId, userId, table: 'sessions', recordId: id, kind: 'upsert', fields, hlc: this.clock.now() });
-      await this.stampRow('sessions', id, fieldHlc);
-      return session;
+      return (await this.getSession(id))!;
     });
+  }
+
+  /** Queues the whole session once, before the first change that depends on it. */
+  private async ensureSessionQueued(session: BoardSession, userId: string) {
+    const [{ queued }] = await this.db.all<{ queued: number }>(
+      `SELECT (SELECT synced FROM sessions WHERE id = ?) + (SELECT count(*) FROM outbox WHERE tbl = 'sessions' AND record_id = ?) AS queued`,
+      [session.id, session.id],
+    );
+    if (queued > 0) return;
+    const { id: _id, teamId: _team, ...fields } = session;
+    const fieldHlc = await this.enqueue({ teamId: session.teamId, userId, table: 'sessions', recordId: session.id, kind: 'upsert', fields, hlc: this.clock.now() });
+    await this.stampRow('sessions', session.id, fieldHlc);
   }
 
   async updateSession(id: string, userId: string, patch: BoardSessionPatch): Promise<BoardSession> {
@@ -334,6 +343,7 @@ export class DeviceStore {
     return this.tx(async () => {
       const session = await this.getSession(id);
       if (!session) throw new StoreError('That session no longer exists');
+      await this.ensureSessionQueued(session, userId);
       const fields: Record<string, unknown> = {};
       if (changes.rink !== undefined && changes.rink !== session.rink) fields.rink = changes.rink;
       if (changes.title !== undefined && changes.title !== session.title) fields.title = changes.title;
@@ -512,6 +522,16 @@ export class DeviceStore {
   async pendingCount(): Promise<number> {
     const [{ n }] = await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'pending'`);
     return n;
+  }
+
+  /** Waiting changes per table, for a status line that says what is waiting. */
+  async pendingByTable(): Promise<Record<SyncedTable, number>> {
+    const rows = await this.db.all<{ tbl: SyncedTable; n: number }>(
+      `SELECT tbl, count(*) AS n FROM outbox WHERE status = 'pending' GROUP BY tbl`,
+    );
+    const counts: Record<SyncedTable, number> = { observations: 0, sessions: 0, cues: 0 };
+    for (const r of rows) counts[r.tbl] = r.n;
+    return counts;
   }
 
   async listOutbox(limit = 500): Promise<OutboxEntry[]> {

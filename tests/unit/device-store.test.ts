@@ -50,8 +50,15 @@ describe('DeviceStore', () => {
     expect(session.day).toBe(localDay(Date.UTC(2026, 11, 2, 9)));
     expect(session.id).toBe(sessionIdFor(TEAM, session.day));
     expect((await store.startSession(TEAM, COACH)).id).toBe(session.id);
+    // Opening the board sends nothing; the first note queues the session once.
+    expect((await store.listOutbox()).filter((o) => o.table === 'sessions')).toHaveLength(0);
+    for (let i = 0; i < 2; i += 1) {
+      await store.recordObservations({ teamId: TEAM, userId: COACH, sessionId: session.id, skaterIds: [skaterIds[0]], cueId: cue.id, mark: 'good' });
+    }
     const ops = (await store.listOutbox()).filter((o) => o.table === 'sessions');
     expect(ops).toHaveLength(1);
+    expect(ops[0].fields).toMatchObject({ day: session.day, focusCueIds: [] });
+    expect(await store.pendingByTable()).toEqual({ observations: 2, sessions: 1, cues: 0 });
   });
 
   it('writes one observation and one outbox entry per selected skater (a group cue)', async () => {
@@ -62,12 +69,12 @@ describe('DeviceStore', () => {
     });
     expect(created).toHaveLength(3);
     expect(new Set(created.map((o) => o.skaterId))).toEqual(new Set(skaterIds));
-    const ops = (await store.listOutbox()).slice(before);
+    const ops = (await store.listOutbox()).slice(before).filter((o) => o.table === 'observations');
     expect(ops.map((o) => o.recordId)).toEqual(created.map((o) => o.id));
     expect(ops.every((o) => o.kind === 'upsert' && o.fields.cueId === cue.id && o.fields.mark === 'needs_work')).toBe(true);
     // Every changed field carries a clock value.
     expect(Object.keys(ops[0].hlc).sort()).toEqual(Object.keys(ops[0].fields).sort());
-    expect(await store.pendingCount()).toBe(before + 3);
+    expect(await store.pendingCount()).toBe(before + 3 + 1); // and the session, queued with its first note
   });
 
   it('rolls back the row when its outbox entry cannot be written (one transaction)', async () => {
@@ -98,18 +105,19 @@ describe('DeviceStore', () => {
     const reopened = await DeviceStore.open(driver, { now: () => Date.UTC(2020, 0, 1) });
     expect(reopened.device).toBe(store.device);
     const next = await reopened.startSession(TEAM, COACH, '2020-01-01');
+    await reopened.updateSession(next.id, COACH, { rink: 'Outdoor oval' });
     const op = (await reopened.listOutbox()).find((o) => o.recordId === next.id)!;
     expect(op.hlc.day > last).toBe(true);
     expect(decodeHlc(op.hlc.day).node).toBe(store.device);
   });
 
   it('undo of an unsent observation leaves no row and no outbox entry', async () => {
-    const { store, session } = await openStore();
-    const before = await store.pendingCount();
+    const { store, session, driver } = await openStore();
     const [o] = await store.recordObservations({ teamId: TEAM, userId: COACH, sessionId: session.id, skaterIds: [skaterIds[1]], cueId: cue.id, mark: 'needs_work' });
     await store.removeObservations([o.id], COACH);
     expect(await store.listObservations(session.id)).toEqual([]);
-    expect(await store.pendingCount()).toBe(before);
+    expect((await store.pendingByTable()).observations).toBe(0);
+    expect(await driver.all(`SELECT id FROM observations WHERE id = ?`, [o.id])).toEqual([]);
   });
 
   it('deleting an observation the server may have seen leaves a tombstone and a delete op', async () => {

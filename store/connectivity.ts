@@ -1,0 +1,55 @@
+/**
+ * Is the Boardside server reachable right now? The browser's online flag alone lies (rink Wi-Fi
+ * with no internet behind it), so the answer also rests on a light health check, repeated while
+ * the app is open. The board shows the result; nothing waits on it.
+ */
+import { useEffect } from 'react';
+import { create } from 'zustand';
+import { API_BASE_URL } from './api';
+
+type Connectivity = { online: boolean; checkedAt: number | null; set: (online: boolean) => void };
+
+export const useConnectivity = create<Connectivity>()((set) => ({
+  online: typeof navigator === 'undefined' ? true : navigator.onLine !== false,
+  checkedAt: null,
+  set: (online) => set({ online, checkedAt: Date.now() }),
+}));
+
+export async function checkServer(): Promise<boolean> {
+  const controller = new AbortController();
+  const timer = setTimeout(() => controller.abort(), 4000);
+  try {
+    const response = await fetch(`${API_BASE_URL}/api/health`, { cache: 'no-store', signal: controller.signal });
+    return response.ok;
+  } catch {
+    return false;
+  } finally {
+    clearTimeout(timer);
+  }
+}
+
+/** Keeps `useConnectivity` current while mounted: on browser online/offline events and every 15 s. */
+export function useConnectivityWatch(onBackOnline?: () => void) {
+  useEffect(() => {
+    if (typeof window === 'undefined') return;
+    let stopped = false;
+    const probe = async () => {
+      const was = useConnectivity.getState().online;
+      const now = navigator.onLine !== false && (await checkServer());
+      if (stopped) return;
+      useConnectivity.getState().set(now);
+      if (now && !was) onBackOnline?.();
+    };
+    const offline = () => useConnectivity.getState().set(false);
+    window.addEventListener('online', probe);
+    window.addEventListener('offline', offline);
+    const timer = setInterval(probe, 15_000);
+    void probe();
+    return () => {
+      stopped = true;
+      window.removeEventListener('online', probe);
+      window.removeEventListener('offline', offline);
+      clearInterval(timer);
+    };
+  }, [onBackOnline]);
+}
