@@ -2,16 +2,26 @@
  * Opens the device database before the coach area renders, and makes sure only one browser tab
  * holds it. A second tab says plainly that Boardside is open elsewhere and offers to take over;
  * the tab that hands over says so too. Never a blank page or a raw storage error.
+ *
+ * Handing over: the browser's SQLite keeps its file handles for as long as its worker lives, so
+ * closing the database is not enough. The tab that steps aside finishes its queued writes,
+ * closes, remembers (for this tab only) that it moved, and reloads; the reload ends the worker and
+ * frees the file for the other tab.
  */
 import { useQueryClient } from '@tanstack/react-query';
 import { useCallback, useEffect, type ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 
-import { closeDeviceStore, openDeviceStore } from '../../sync';
+import { closeDeviceStore, isDatabaseBusy, openDeviceStore } from '../../sync';
 import { claimTab, takeOver } from '../../sync/tab-lock';
 import { boardKeys } from '../../store/board';
 import { useDevice } from '../../store/device';
 import { Banner, Button, Card, Heading, Loading, Screen, Text, spacing } from '../ui';
+
+/** Set in a tab that handed the database to another tab, so its reload does not grab it back. */
+const MOVED_KEY = 'boardside.device.moved';
+/** How many times this tab reloaded to wait for a database file another tab was still freeing. */
+const RETRY_KEY = 'boardside.device.open-retries';
 
 export function DeviceGate({ children }: { children: ReactNode }) {
   const status = useDevice((s) => s.status);
@@ -22,19 +32,36 @@ export function DeviceGate({ children }: { children: ReactNode }) {
     useDevice.getState().set('moved');
     await closeDeviceStore();
     client.removeQueries({ queryKey: boardKeys.all });
+    sessionStorage.setItem(MOVED_KEY, '1');
+    window.location.reload();
   }, [client]);
 
   const open = useCallback(async () => {
     try {
       await openDeviceStore();
+      sessionStorage.removeItem(RETRY_KEY);
       useDevice.getState().set('ready');
     } catch (e) {
+      // The tab that let go may still be unloading and holding the file. This page's database
+      // worker cannot recover from that, but a fresh page can: reload and try again, a few times.
+      const retries = Number(sessionStorage.getItem(RETRY_KEY) ?? 0);
+      if (isDatabaseBusy(e) && retries < 3) {
+        sessionStorage.setItem(RETRY_KEY, String(retries + 1));
+        await new Promise((resolve) => setTimeout(resolve, 300));
+        window.location.reload();
+        return;
+      }
+      sessionStorage.removeItem(RETRY_KEY);
       useDevice.getState().set('failed', e instanceof Error ? e.message : String(e));
     }
   }, []);
 
   useEffect(() => {
     if (useDevice.getState().status !== 'opening') return;
+    if (typeof sessionStorage !== 'undefined' && sessionStorage.getItem(MOVED_KEY)) {
+      useDevice.getState().set('moved');
+      return;
+    }
     let cancelled = false;
     void claimTab(leave).then(async (ownership) => {
       if (cancelled) return;
@@ -47,10 +74,13 @@ export function DeviceGate({ children }: { children: ReactNode }) {
   }, [leave, open]);
 
   const useHere = async () => {
+    sessionStorage.removeItem(MOVED_KEY);
     useDevice.getState().set('opening');
     const ownership = await takeOver(leave);
-    if (ownership.state === 'elsewhere') useDevice.getState().set('elsewhere');
-    else await open();
+    if (ownership.state === 'elsewhere') return useDevice.getState().set('elsewhere');
+    // The other tab lets go of the lock as it unloads; give its database worker a moment to end.
+    await new Promise((resolve) => setTimeout(resolve, 400));
+    await open();
   };
 
   if (status === 'ready') return <>{children}</>;

@@ -1,0 +1,167 @@
+/**
+ * Board benchmark (`npm run bench`): headless Chromium, a device store holding 50,000 earlier
+ * observations, then 200 taps on cue chips. For each tap it measures, from the chip's pointer
+ * event, (a) the frame that shows the new note in the feed and (b) the commit of the note and its
+ * outbox entry to the device store. Also the board's load time with that store. Prints p50/p95.
+ *
+ * Figures, not assertions: run it, read it, compare runs on the same machine.
+ */
+import { chromium, type Page } from 'playwright-core';
+import { execSync } from 'node:child_process';
+
+const BASE = process.env.BENCH_BASE_URL ?? 'http://127.0.0.1:8434';
+const ROWS = Number(process.env.BENCH_ROWS ?? 50_000);
+const TAPS = Number(process.env.BENCH_TAPS ?? 200);
+
+const quantile = (values: number[], q: number) => {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))];
+};
+const fmt = (values: number[]) =>
+  `p50 ${quantile(values, 0.5).toFixed(1)} ms, p95 ${quantile(values, 0.95).toFixed(1)} ms, max ${Math.max(...values).toFixed(1)} ms`;
+
+async function api<T>(path: string, body?: unknown, token?: string): Promise<T> {
+  const response = await fetch(`${BASE}${path}`, {
+    method: body ? 'POST' : 'GET',
+    headers: { 'content-type': 'application/json', origin: BASE, ...(token ? { authorization: `Bearer ${token}` } : {}) },
+    body: body ? JSON.stringify(body) : undefined,
+  });
+  if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
+  return response.json() as Promise<T>;
+}
+
+async function fillDevice(page: Page, teamId: string, userId: string, skaterIds: string[], cueIds: string[]) {
+  return page.evaluate(
+    async ({ rows, teamId, userId, skaterIds, cueIds }) => {
+      const { driver } = (globalThis as any).__boardsideBench;
+      const started = performance.now();
+      const perSession = 200;
+      const hex = (n: number, width: number) => n.toString(16).padStart(width, '0');
+      for (let offset = 0; offset < rows; offset += 1000) {
+        const values: string[] = [];
+        const params: (string | number)[] = [];
+        for (let i = offset; i < Math.min(rows, offset + 1000); i += 1) {
+          const session = Math.floor(i / perSession);
+          const day = new Date(Date.UTC(2025, 0, 1) + session * 86_400_000).toISOString().slice(0, 10);
+          values.push('(?, ?, ?, ?, ?, ?, ?, 0, ?, ?, 0, \'{}\', 1)');
+          params.push(
+            `0190${hex(i, 8)}-0000-7000-8000-${hex(i, 12)}`,
+            teamId,
+            `0190${hex(session, 8)}-5e55-7000-8000-000000000000`,
+            skaterIds[i % skaterIds.length],
+            cueIds[i % cueIds.length],
+            i % 3 === 0 ? 'good' : 'needs_work',
+            '',
+            `${day}T10:00:00.000Z`,
+            userId,
+          );
+        }
+        await driver.exec('BEGIN');
+        await driver.run(
+          `INSERT INTO observations (id, team_id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by, deleted, hlc, synced) VALUES ${values.join(',')}`,
+          params,
+        );
+        await driver.exec('COMMIT');
+      }
+      return performance.now() - started;
+    },
+    { rows: ROWS, teamId, userId, skaterIds, cueIds },
+  );
+}
+
+async function main() {
+  const chromiumPath = process.env.CHROMIUM_PATH ?? execSync('command -v chromium', { encoding: 'utf8' }).trim();
+  const email = `bench.${Date.now()}@bench.example`;
+  const password = 'bench-password-123';
+  const session = await api<{ accessToken: string; user: { id: string }; memberships: { teamId: string }[] }>('/api/auth/sign-up', {
+    email,
+    password,
+    displayName: 'Bench Coach',
+    teamName: 'Bench Squad',
+  });
+  const teamId = session.memberships[0].teamId;
+  const skaters: { id: string }[] = [];
+  for (let i = 0; i < 12; i += 1) {
+    skaters.push(await api(`/api/teams/${teamId}/skaters`, { displayName: `Bench Skater ${i + 1}` }, session.accessToken));
+  }
+  const cues = await api<{ id: string }[]>(`/api/teams/${teamId}/cues`, undefined, session.accessToken);
+
+  const browser = await chromium.launch({
+    executablePath: chromiumPath,
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+  const page = await browser.newPage({ viewport: { width: 390, height: 844 } });
+  await page.goto(`${BASE}/sign-in`);
+  await page.evaluate(() => localStorage.setItem('boardside.bench', '1'));
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill(password);
+  await page.getByTestId('sign-in-submit').click();
+  await page.getByTestId(`skater-tile-${skaters[0].id}`).waitFor();
+
+  const fillMs = await fillDevice(page, teamId, session.user.id, skaters.map((s) => s.id), cues.map((c) => c.id));
+  console.log(`device store filled with ${ROWS} observations in ${(fillMs / 1000).toFixed(1)} s (${Math.round(ROWS / (fillMs / 1000))} rows/s)`);
+
+  // Board load with that store: navigation start to tiles and chips on screen.
+  const loads: number[] = [];
+  for (let i = 0; i < 3; i += 1) {
+    await page.reload();
+    await page.getByTestId(`cue-chip-${cues[0].id}`).waitFor();
+    loads.push(await page.evaluate(() => performance.now()));
+  }
+  console.log(`board load with ${ROWS} stored observations (navigation to chips shown): ${loads.map((l) => `${Math.round(l)} ms`).join(', ')}`);
+
+  await page.evaluate(() => {
+    const w = window as any;
+    w.__taps = [];
+    w.__painted = new Map<string, number>();
+    document.addEventListener('pointerdown', (event) => w.__taps.push(event.timeStamp), true);
+    new MutationObserver((mutations) => {
+      for (const m of mutations) {
+        for (const node of Array.from(m.addedNodes)) {
+          if (!(node instanceof HTMLElement)) continue;
+          const items = [node, ...Array.from(node.querySelectorAll('[data-testid^="feed-item-"]'))] as HTMLElement[];
+          for (const item of items) {
+            const id = item.dataset?.testid?.startsWith('feed-item-') ? item.dataset.testid.slice('feed-item-'.length) : null;
+            if (id && !w.__painted.has(id)) {
+              w.__painted.set(id, -1);
+              requestAnimationFrame(() => w.__painted.set(id, performance.now()));
+            }
+          }
+        }
+      }
+    }).observe(document.body, { childList: true, subtree: true });
+  });
+
+  await page.getByTestId(`skater-tile-${skaters[0].id}`).click();
+  for (let i = 0; i < TAPS; i += 1) {
+    await page.getByTestId(`cue-chip-${cues[i % cues.length].id}`).click();
+    await page.waitForTimeout(60);
+  }
+  await page.waitForTimeout(1500);
+
+  const result = await page.evaluate(() => {
+    const w = window as any;
+    const taps: number[] = w.__taps.slice(1); // the first pointerdown selected the tile
+    const commits = performance.getEntriesByName('boardside:committed') as PerformanceMark[];
+    const painted = w.__painted as Map<string, number>;
+    const paint: number[] = [];
+    const commit: number[] = [];
+    commits.slice(-taps.length).forEach((mark, i) => {
+      const id = (mark.detail as string[])[0];
+      const tap = taps[i];
+      commit.push(mark.startTime - tap);
+      const p = painted.get(id);
+      if (p !== undefined && p > 0) paint.push(p - tap);
+    });
+    return { paint, commit, taps: taps.length, commits: commits.length };
+  });
+  console.log(`${result.taps} taps, ${result.commits} commits`);
+  console.log(`tap -> note shown in the feed (next frame): ${fmt(result.paint)}   (goal p95 <= 16 ms)`);
+  console.log(`tap -> note + outbox entry committed:       ${fmt(result.commit)}   (goal p95 <= 25 ms)`);
+  await browser.close();
+}
+
+main().catch((error) => {
+  console.error(error);
+  process.exit(1);
+});

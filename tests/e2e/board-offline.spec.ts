@@ -1,0 +1,97 @@
+/**
+ * The board with the API server down: a coach signed in once records a whole session with no
+ * server, reloads, and finds every note (and its outbox entry) still on the device. This test
+ * starts its own server so it can stop it; the web app then comes from the service worker.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import path from 'node:path';
+import { expect, test, type Page } from '@playwright/test';
+import { apiCoachWithSkaters, DESKTOP, PHONE, shootBoth, signInThroughForm, watchErrors } from './support';
+
+const PORT = 8433;
+const BASE = `http://127.0.0.1:${PORT}`;
+const ROOT = path.resolve(__dirname, '../..');
+let server: ChildProcess | undefined;
+
+async function startServer() {
+  server = spawn(path.join(ROOT, 'node_modules/.bin/tsx'), ['server/main.ts'], {
+    cwd: ROOT,
+    env: { ...process.env, PORT: String(PORT), PUBLIC_URL: BASE, WEB_DIST: path.join(ROOT, 'dist'), LOG_LEVEL: 'warn', TSX_TSCONFIG_PATH: 'server/tsconfig.json' },
+    stdio: 'inherit',
+  });
+  for (let i = 0; i < 100; i += 1) {
+    if (await fetch(`${BASE}/api/health`).then((r) => r.ok, () => false)) return;
+    await new Promise((resolve) => setTimeout(resolve, 200));
+  }
+  throw new Error('the board test server did not start');
+}
+
+async function stopServer() {
+  if (!server || server.exitCode !== null) return;
+  const exited = new Promise((resolve) => server!.once('exit', resolve));
+  server.kill('SIGTERM');
+  await exited;
+  await expect.poll(() => fetch(`${BASE}/api/health`).then(() => 'up', () => 'down')).toBe('down');
+}
+
+test.afterAll(stopServer);
+
+const tile = (page: Page, id: string) => page.getByTestId(`skater-tile-${id}`);
+
+test('a whole session recorded with the server down survives a reload: 24 notes, 24 waiting', async ({ browser }) => {
+  await startServer();
+  const names = ['Anke Rijpma', 'Bauke Smit', 'Dirkje Wouda', 'Eelke Visser', 'Froukje Tol'];
+  const { coach, skaters, cues } = await apiCoachWithSkaters(BASE, names);
+  const page = await browser.newPage({ viewport: PHONE });
+  const check = watchErrors(page, [/Failed to load resource/, /ERR_CONNECTION_REFUSED/]);
+  await signInThroughForm(page, BASE, coach.email, coach.password);
+  for (const s of skaters) await expect(tile(page, s.id)).toBeVisible();
+  // The app shell must be on the device before the server goes away.
+  await page.evaluate(() => navigator.serviceWorker.ready.then(() => true));
+
+  await stopServer();
+
+  const chip = (index: number) => page.getByTestId(`cue-chip-${cues[index].id}`);
+  const tapFor = async (skaterIndex: number, cueIndex: number) => {
+    await tile(page, skaters[skaterIndex].id).click();
+    await chip(cueIndex).click();
+    await tile(page, skaters[skaterIndex].id).click();
+  };
+
+  // 20 single notes, 4 per skater.
+  for (let i = 0; i < 20; i += 1) await tapFor(i % 5, i % 7);
+  // One "good": the second zone of a chip.
+  await tile(page, skaters[0].id).click();
+  await page.getByTestId(`cue-good-${cues[3].id}`).click();
+  await tile(page, skaters[0].id).click();
+  // One group cue for three skaters at once.
+  for (const i of [1, 2, 3]) await tile(page, skaters[i].id).click();
+  await chip(10).click();
+  for (const i of [1, 2, 3]) await tile(page, skaters[i].id).click();
+  // One more, undone at once.
+  await tapFor(4, 12);
+  await expect(page.getByTestId('undo-bar')).toContainText(cues[12].label);
+  await page.getByTestId('undo-button').click();
+
+  const items = page.locator('[data-testid^="feed-item-"]');
+  await expect(items).toHaveCount(24);
+  await shootBoth(page, 'board-offline');
+
+  await page.reload();
+  await expect(page.getByTestId('coach-home')).toBeVisible();
+  await expect(page.getByTestId('status-offline')).toBeVisible();
+  await expect(items).toHaveCount(24);
+  await expect(page.getByTestId('status-pending')).toContainText('24 notes');
+
+  // Right skaters: 4 each, plus the good note for skater 0 and the group cue for 1-3.
+  const expected = [5, 5, 5, 5, 4];
+  for (const [i, s] of skaters.entries()) await expect(page.getByTestId(`tile-count-${s.id}`)).toContainText(String(expected[i]));
+  // Right marks and cues.
+  await expect(page.getByTestId('feed').getByText('Good', { exact: true })).toHaveCount(1);
+  await expect(items.filter({ hasText: cues[10].label })).toHaveCount(3);
+  await expect(items.filter({ hasText: cues[12].label })).toHaveCount(0);
+
+  await page.setViewportSize(DESKTOP);
+  await shootBoth(page, 'board-offline-after-reload');
+  check();
+});
