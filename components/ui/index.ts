@@ -13,3 +13,4 @@ export * from './loading';
 export * from './use-zod-form';
 export * from './text-link';
 export * from './placeholder-panel';
+export * from './toggle-row';

@@ -1,0 +1,68 @@
+/**
+ * The board's status line: the day, "Offline" in plain words when the server cannot be reached
+ * (or the coach was signed in from this device's memory), and how many changes wait on this
+ * device to be sent. Read at a glance; nothing here needs a tap.
+ */
+import { StyleSheet, View } from 'react-native';
+
+import { Text, colors, radius, spacing } from '../ui';
+import { formatDay } from './format';
+
+export type StatusLineProps = {
+  day: string;
+  offline: boolean;
+  /** Changes waiting on this device, and the same in words ("24 notes and 1 session waiting to be sent"). */
+  pending: { total: number; text: string };
+  title?: string;
+  rink?: string;
+};
+
+export function StatusLine({ day, offline, pending, title, rink }: StatusLineProps) {
+  const place = [title, rink].filter(Boolean).join(' · ');
+  return (
+    <View style={styles.line} testID="status-line" accessibilityRole="summary">
+      <Text weight="bold" variant="bodyLarge" testID="status-day">
+        {formatDay(day)}
+        {place ? <Text tone="muted">{`  ${place}`}</Text> : null}
+      </Text>
+      <View style={styles.right}>
+        {offline ? (
+          <View style={styles.offline} testID="status-offline" accessibilityLabel="Offline: notes are kept on this device">
+            <View style={styles.dot} />
+            <Text weight="bold" variant="caption">
+              Offline
+            </Text>
+          </View>
+        ) : null}
+        <Text variant="caption" tone={pending.total > 0 ? 'default' : 'muted'} weight={pending.total > 0 ? 'bold' : 'regular'} testID="status-pending">
+          {pending.text}
+        </Text>
+      </View>
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  line: {
+    flexDirection: 'row',
+    flexWrap: 'wrap',
+    alignItems: 'center',
+    justifyContent: 'space-between',
+    columnGap: spacing.md,
+    rowGap: spacing.xxs,
+  },
+  right: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm, flexWrap: 'wrap' },
+  // A hollow ring plus the word: offline is told by text, never by colour.
+  offline: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: spacing.xxs,
+    paddingHorizontal: spacing.sm,
+    paddingVertical: 2,
+    borderRadius: radius.pill,
+    borderWidth: 2,
+    borderColor: colors.ink,
+    backgroundColor: colors.surface,
+  },
+  dot: { width: 10, height: 10, borderRadius: 5, borderWidth: 2, borderColor: colors.ink },
+});

@@ -1,0 +1,37 @@
+/**
+ * The sync transport over HTTP (POST /api/sync/push, GET /api/sync/pull), through the app's one
+ * API client (auth refresh, timeouts, parsed answers). Failures become the sync's error classes
+ * (sync/transport.ts) so the run knows whether to retry later, re-sync, or split a batch.
+ */
+import { pullReplySchema, pushReplySchema } from '../shared/schemas/sync';
+import { RequestRefused, ResyncRequired, ServerUnavailable, TransportError, type SyncTransport } from '../sync/transport';
+import { apiRequestParsed, isApiRequestError, NETWORK_MESSAGE } from './api';
+
+/** Maps an API client failure to the sync's error classes. */
+export function toSyncTransportError(error: unknown): Error {
+  if (!isApiRequestError(error)) return new TransportError(error instanceof Error ? error.message : NETWORK_MESSAGE);
+  const { status, code, message } = error;
+  if (status === 410 || code === 'resync_required') return new ResyncRequired();
+  if (status === 0) return new TransportError(message || NETWORK_MESSAGE, 0);
+  if (status >= 500) return new ServerUnavailable(status === 503 ? undefined : message, status);
+  // The request itself was refused as malformed: only these point at the ops it carried.
+  if (status === 400 || status === 413 || status === 422) return new RequestRefused(message, status, code);
+  // 401/403 (signed out for now), 404 (no sync API here yet), 408, 409, 429: try again later.
+  return new TransportError(message, status);
+}
+
+async function call<T>(request: () => Promise<T>): Promise<T> {
+  try {
+    return await request();
+  } catch (error) {
+    throw toSyncTransportError(error);
+  }
+}
+
+export const httpSyncTransport: SyncTransport = {
+  push: (body) => call(() => apiRequestParsed('/api/sync/push', pushReplySchema, { method: 'POST', body })),
+  pull: ({ teamId, cursor, limit }) => {
+    const query = new URLSearchParams({ teamId, cursor: String(cursor), limit: String(limit) });
+    return call(() => apiRequestParsed(`/api/sync/pull?${query.toString()}`, pullReplySchema));
+  },
+};
