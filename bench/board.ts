@@ -91,6 +91,8 @@ async function main() {
     args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
   });
   const page = await browser.newPage({ viewport: { width: 390, height: 844 } });
+  // tsx keeps function names with a `__name` helper that the page does not have: give it one.
+  await page.addInitScript('globalThis.__name = (f) => f;');
   await page.goto(`${BASE}/sign-in`);
   await page.evaluate(() => localStorage.setItem('boardside.bench', '1'));
   await page.getByTestId('sign-in-email').fill(email);

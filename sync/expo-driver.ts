@@ -7,7 +7,11 @@ export const DEVICE_DATABASE = 'boardside.db';
 
 export async function openExpoDriver(name = DEVICE_DATABASE): Promise<SqlDriver> {
   const db = await SQLite.openDatabaseAsync(name);
-  await db.execAsync('PRAGMA foreign_keys = ON');
+  // One tab owns the file (sync/tab-lock.ts), so an exclusive lock costs nothing and spares every
+  // transaction a lock round trip; a persistent journal spares creating and deleting a journal
+  // file per commit. Both keep full durability (synchronous stays FULL: a dead battery at the
+  // rink must not corrupt the notebook).
+  await db.execAsync('PRAGMA locking_mode = EXCLUSIVE; PRAGMA journal_mode = PERSIST; PRAGMA foreign_keys = ON;');
   return {
     exec: (sql) => db.execAsync(sql),
     run: async (sql, params: readonly SqlValue[] = []) => {
