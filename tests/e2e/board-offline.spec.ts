@@ -77,11 +77,23 @@ test('a whole session recorded with the server down survives a reload: 24 notes,
   await expect(items).toHaveCount(24);
   await shootBoth(page, 'board-offline');
 
+  // The cue library works offline too: a new cue, then its chip on the board.
+  await page.getByTestId('cue-library-open').click();
+  await page.getByTestId('cue-add-phase-straight').click();
+  await page.getByTestId('cue-add-input').fill('Quiet arms on the straight');
+  await page.getByTestId('cue-add-save').click();
+  await expect(page.getByTestId('cue-library-straight')).toContainText('Quiet arms on the straight');
+  await shootBoth(page, 'cue-library');
+  await page.getByTestId('cue-library-close').click();
+  await expect(page.getByTestId('cue-section-straight')).toContainText('Quiet arms on the straight');
+
   await page.reload();
   await expect(page.getByTestId('coach-home')).toBeVisible();
   await expect(page.getByTestId('status-offline')).toBeVisible();
   await expect(items).toHaveCount(24);
   await expect(page.getByTestId('status-pending')).toContainText('24 notes');
+  await expect(page.getByTestId('status-pending')).toContainText('1 cue change');
+  await expect(page.getByTestId('cue-section-straight')).toContainText('Quiet arms on the straight');
 
   // Right skaters: 4 each, plus the good note for skater 0 and the group cue for 1-3.
   const expected = [5, 5, 5, 5, 4];
