@@ -18,6 +18,7 @@ import { logger } from './lib/logger';
 import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
 import { invitationRoutes } from './routes/invitations';
+import { syncRoutes } from './routes/sync';
 import { teamRoutes } from './routes/teams';
 
 export function createApp(dataSource: DataSource) {
@@ -73,6 +74,7 @@ export function createApp(dataSource: DataSource) {
   app.use('/api', authRoutes(dataSource));
   app.use('/api', invitationRoutes(dataSource));
   app.use('/api', teamRoutes(dataSource));
+  app.use('/api', syncRoutes(dataSource));
   app.use('/api', (req) => {
     throw new HttpError(404, 'not_found', `No API route for ${req.method} ${req.path}`);
   });

@@ -5,6 +5,7 @@
 import { createDataSource } from '../data-source';
 import { hashPassword } from '../lib/passwords';
 import { insertDefaultCues } from '../services/cues';
+import { nextSeqs } from '../services/sync/counter';
 import { DEMO_PASSWORD, demoCueIds, demoGroups, demoSkaters, demoTeam, demoUsers } from '../seed/demo';
 
 async function main() {
@@ -22,20 +23,32 @@ async function main() {
         await tx.query(`DELETE FROM teams WHERE id = $1`, [demoTeam.id]);
         await tx.query(`DELETE FROM users WHERE id = ANY($1::uuid[])`, [demoUsers.map((u) => u.id)]);
         await tx.query(`INSERT INTO teams (id, name) VALUES ($1, $2)`, [demoTeam.id, demoTeam.name]);
-        for (const g of demoGroups) {
-          await tx.query(`INSERT INTO skater_groups (team_id, id, name, sort_order) VALUES ($1, $2, $3, $4)`, [demoTeam.id, g.id, g.name, g.sortOrder]);
+        // The team's sync counter: every seeded group, skater and cue draws its server_seq from it.
+        await tx.query(`INSERT INTO team_counters (team_id, seq) VALUES ($1, 0)`, [demoTeam.id]);
+        const groupSeq = await nextSeqs(tx, demoTeam.id, demoGroups.length);
+        for (const [index, g] of demoGroups.entries()) {
+          await tx.query(`INSERT INTO skater_groups (team_id, id, name, sort_order, server_seq) VALUES ($1, $2, $3, $4, $5)`, [
+            demoTeam.id,
+            g.id,
+            g.name,
+            g.sortOrder,
+            groupSeq + index,
+          ]);
         }
+        const skaterSeq = await nextSeqs(tx, demoTeam.id, demoSkaters.length);
         await tx.query(
-          `INSERT INTO skaters (team_id, id, display_name, group_id)
-           SELECT $1, * FROM unnest($2::uuid[], $3::text[], $4::uuid[])`,
-          [demoTeam.id, demoSkaters.map((s) => s.id), demoSkaters.map((s) => s.displayName), demoSkaters.map((s) => s.groupId)],
+          `INSERT INTO skaters (team_id, id, display_name, group_id, server_seq)
+           SELECT $1, id, name, group_id, $5::bigint + ord - 1
+             FROM unnest($2::uuid[], $3::text[], $4::uuid[]) WITH ORDINALITY AS s(id, name, group_id, ord)`,
+          [demoTeam.id, demoSkaters.map((s) => s.id), demoSkaters.map((s) => s.displayName), demoSkaters.map((s) => s.groupId), skaterSeq],
         );
         await insertDefaultCues(tx, demoTeam.id, demoCueIds);
         for (const u of demoUsers) {
           await tx.query(`INSERT INTO users (id, email, password_hash, display_name) VALUES ($1, $2, $3, $4)`, [u.id, u.email, passwordHash, u.displayName]);
           await tx.query(`INSERT INTO memberships (team_id, user_id, role, skater_id) VALUES ($1, $2, $3, $4)`, [demoTeam.id, u.id, u.role, u.skaterId]);
           if (u.role === 'skater') {
-            await tx.query(`UPDATE skaters SET user_id = $3 WHERE team_id = $1 AND id = $2`, [demoTeam.id, u.skaterId, u.id]);
+            const seq = await nextSeqs(tx, demoTeam.id, 1);
+            await tx.query(`UPDATE skaters SET user_id = $3, server_seq = $4 WHERE team_id = $1 AND id = $2`, [demoTeam.id, u.skaterId, u.id, seq]);
           }
         }
       });

@@ -1,5 +1,6 @@
 /** Every migration, in order. New migrations are appended here as classes (no glob loading). */
 import { Foundation1764650000000 } from './1764650000000-foundation';
 import { CueLibrary1764660000000 } from './1764660000000-cue-library';
+import { Sync1764670000000 } from './1764670000000-sync';
 
-export const migrations = [Foundation1764650000000, CueLibrary1764660000000];
+export const migrations = [Foundation1764650000000, CueLibrary1764660000000, Sync1764670000000];

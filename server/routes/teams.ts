@@ -10,6 +10,7 @@ import { requireTeamRole, requireUser } from '../lib/auth';
 import { conflict, notFound, parse } from '../lib/errors';
 import { Invitation, Skater, SkaterGroup } from '../entities';
 import { listCues } from '../services/cues';
+import { nextSeqs } from '../services/sync/counter';
 import { createInvitation, toInvitationDto } from '../services/invitations';
 import { z } from 'zod';
 
@@ -62,7 +63,14 @@ export function teamRoutes(dataSource: DataSource) {
     const id = input.id ?? uuidv7();
     if (await dataSource.getRepository(Skater).existsBy({ teamId, id })) throw conflict('A skater with this id exists already');
     const row = { teamId, id, displayName: input.displayName, groupId: input.groupId ?? null, userId: null };
-    await dataSource.getRepository(Skater).insert(row);
+    await dataSource.transaction(async (tx) => {
+      // Stamped from the team's sync counter in the same transaction, so pulls see the profile.
+      const serverSeq = await nextSeqs(tx, teamId, 1);
+      await tx.query(
+        `INSERT INTO skaters (team_id, id, display_name, group_id, user_id, server_seq) VALUES ($1, $2, $3, $4, NULL, $5)`,
+        [teamId, id, row.displayName, row.groupId, serverSeq],
+      );
+    });
     res.status(201).json(toSkaterDto(row as Skater));
   });
 

@@ -27,6 +27,8 @@ export async function signUp(dataSource: DataSource, input: SignUpInput): Promis
     const teamId = uuidv7();
     await tx.getRepository(Team).insert({ id: teamId, name: input.teamName });
     await tx.getRepository(Membership).insert({ teamId, userId: user.id, role: 'head_coach', skaterId: null });
+    // The team's sync counter (shared/SYNC.md, "Server order"); the cue library draws from it.
+    await tx.query(`INSERT INTO team_counters (team_id, seq) VALUES ($1, 0)`, [teamId]);
     await insertDefaultCues(tx, teamId);
     return issueSession(tx, user);
   });

@@ -19,6 +19,7 @@ import { hashPassword, verifyPassword } from '../lib/passwords';
 import { hashToken, randomToken } from '../lib/tokens';
 import { Invitation, Membership, Skater, Team, User } from '../entities';
 import { issueSession, type IssuedSession } from './sessions';
+import { nextSeqs } from './sync/counter';
 
 export const toInvitationDto = (row: Invitation): InvitationDto => ({
   id: row.id,
@@ -164,9 +165,12 @@ export async function acceptInvitation(dataSource: DataSource, input: Invitation
     const member = await tx.getRepository(Membership).findOneBy({ teamId: pending.teamId, userId: user.id });
     if (member) throw conflict('You are already a member of this team: sign in instead');
     if (pending.role === 'skater') {
+      // hasAccount changes: the profile gets a new server_seq so devices pull it.
+      const seq = await nextSeqs(tx, pending.teamId, 1);
       const [, linked]: [unknown[], number] = await tx.query(
-        `UPDATE skaters SET user_id = $3, updated_at = now() WHERE team_id = $1 AND id = $2 AND user_id IS NULL`,
-        [pending.teamId, pending.skaterId, user.id],
+        `UPDATE skaters SET user_id = $3, updated_at = now(), server_seq = $4
+          WHERE team_id = $1 AND id = $2 AND user_id IS NULL`,
+        [pending.teamId, pending.skaterId, user.id, seq],
       );
       if (linked === 0) throw conflict('This skater profile is already linked to another account');
     }

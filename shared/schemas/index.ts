@@ -3,3 +3,4 @@ export * from './team';
 export * from './errors';
 export * from './cues';
 export * from './board';
+export * from './sync';
