@@ -92,7 +92,13 @@ export function createApp(dataSource: DataSource) {
       }),
     );
     // Every other path is a client route: the single-page app decides what to show.
-    app.get('/{*splat}', (_req, res) => {
+    app.get('/{*splat}', (req, res) => {
+      // A missing file (a name with an extension) is a 404, not the page: a browser asking for
+      // /sw.js or an image must never be handed HTML.
+      if (path.extname(req.path)) {
+        res.status(404).type('text/plain').send('Not found');
+        return;
+      }
       res.set('Cache-Control', 'no-cache').sendFile(path.join(dist, 'index.html'));
     });
   }
