@@ -38,6 +38,7 @@ export const deviceMigrations: readonly string[] = [
     cue_id TEXT NOT NULL, mark TEXT NOT NULL CHECK (mark IN ('needs_work', 'good')),
     note TEXT NOT NULL DEFAULT '', note_shared INTEGER NOT NULL DEFAULT 0,
     created_at TEXT NOT NULL, created_by TEXT NOT NULL, deleted INTEGER NOT NULL DEFAULT 0,
+    acknowledged_at TEXT,
     hlc TEXT NOT NULL DEFAULT '{}',
     -- 1 once the server has acknowledged the record: from then on a delete must be a tombstone.
     synced INTEGER NOT NULL DEFAULT 0
@@ -63,6 +64,19 @@ export const deviceMigrations: readonly string[] = [
   );
   CREATE INDEX ix_outbox_record ON outbox (tbl, record_id);
   CREATE INDEX ix_outbox_team_status ON outbox (team_id, status);
+  `,
+  // 2: sync bookkeeping. The server's reason for a rejected op; `synced` on the pull-only tables
+  // (2 = "not yet confirmed by the running full re-sync", swept when it completes); the last known
+  // server value of fields that local edits in the outbox are hiding, so a discarded edit can go
+  // back to it.
+  `
+  ALTER TABLE outbox ADD COLUMN reject_reason TEXT;
+  ALTER TABLE groups ADD COLUMN synced INTEGER NOT NULL DEFAULT 1;
+  ALTER TABLE skaters ADD COLUMN synced INTEGER NOT NULL DEFAULT 1;
+  CREATE TABLE sync_shadow (
+    tbl TEXT NOT NULL, record_id TEXT NOT NULL, fields TEXT NOT NULL DEFAULT '{}',
+    PRIMARY KEY (tbl, record_id)
+  );
   `,
 ];
 

@@ -25,6 +25,7 @@ import {
 } from '../shared/schemas';
 import { SerialQueue, transaction, type SqlDriver, type SqlValue } from './driver';
 import { migrateDevice } from './schema';
+import { captureShadow, releaseDiscarded } from './shadow';
 
 /** A change the store refuses, with a message fit to show the coach. */
 export class StoreError extends Error {}
@@ -44,9 +45,67 @@ export interface OutboxEntry {
   attempts: number;
   lastError: string | null;
   status: 'pending' | 'rejected';
+  /** For a rejected op: the server's reason (validation | permission | unknown_record). */
+  rejectReason: string | null;
   sentAt: string | null;
   createdAt: string;
 }
+
+/**
+ * What the sync modules (sync/push.ts, sync/apply.ts, sync/pull.ts) need from the store. Not for
+ * screens: they go through the store's methods.
+ */
+export interface SyncInternals {
+  readonly db: SqlDriver;
+  /** One device transaction on the store's write queue; the device clock is saved with it. */
+  transaction<T>(work: () => Promise<T>): Promise<T>;
+  /** Folds a clock value seen from the server into the device clock (saved by the transaction). */
+  receiveClock(remote: string): void;
+}
+
+type OutboxRow = {
+  seq: number;
+  op_id: string;
+  team_id: string;
+  user_id: string;
+  tbl: SyncedTable;
+  record_id: string;
+  kind: 'upsert' | 'delete';
+  fields: string;
+  hlc: string;
+  attempts: number;
+  last_error: string | null;
+  status: 'pending' | 'rejected';
+  reject_reason: string | null;
+  sent_at: string | null;
+  created_at: string;
+};
+
+export const toOutboxEntry = (r: OutboxRow): OutboxEntry => ({
+  seq: r.seq,
+  opId: r.op_id,
+  teamId: r.team_id,
+  userId: r.user_id,
+  table: r.tbl,
+  recordId: r.record_id,
+  kind: r.kind,
+  fields: JSON.parse(r.fields),
+  hlc: JSON.parse(r.hlc),
+  attempts: r.attempts,
+  lastError: r.last_error,
+  status: r.status,
+  rejectReason: r.reject_reason ?? null,
+  sentAt: r.sent_at,
+  createdAt: r.created_at,
+});
+
+/** Meta keys the sync keeps per team. */
+export const metaKeys = {
+  cursor: (teamId: string) => `cursor:${teamId}`,
+  lastSyncAt: (teamId: string) => `last_sync_at:${teamId}`,
+  /** Set while a full re-sync runs: rows not confirmed by it are swept when it completes. */
+  resync: (teamId: string) => `resync:${teamId}`,
+};
 
 export interface RecordInput {
   teamId: string;
@@ -163,6 +222,37 @@ export class DeviceStore {
     return this.deviceId;
   }
 
+  /** The id this device pushes under (the device id: one per database, kept in meta). */
+  get clientId(): string {
+    return this.deviceId;
+  }
+
+  /** For the sync modules only (see SyncInternals). */
+  syncInternals(): SyncInternals {
+    return {
+      db: this.db,
+      transaction: (work) => this.tx(work),
+      receiveClock: (remote) => {
+        this.clock.receive(remote);
+      },
+    };
+  }
+
+  async getMeta(key: string): Promise<string | null> {
+    const [row] = await this.db.all<{ value: string }>(`SELECT value FROM meta WHERE key = ?`, [key]);
+    return row?.value ?? null;
+  }
+
+  /** The team's pull cursor (0 before the first pull). */
+  async cursor(teamId: string): Promise<number> {
+    return Number((await this.getMeta(metaKeys.cursor(teamId))) ?? 0);
+  }
+
+  /** Server time of the team's last successful sync run, or null if it never synced. */
+  lastSyncAt(teamId: string): Promise<string | null> {
+    return this.getMeta(metaKeys.lastSyncAt(teamId));
+  }
+
   close() {
     return this.queue.run(() => this.db.close());
   }
@@ -188,8 +278,13 @@ export class DeviceStore {
     kind: 'upsert' | 'delete';
     fields: Record<string, unknown>;
     hlc: string;
+    /** The values the edit replaces (kept as the server's value until the edit is acknowledged). */
+    previous?: Record<string, unknown>;
   }) {
-    const fieldHlc = Object.fromEntries(Object.keys(op.fields).map((field) => [field, op.hlc]));
+    if (op.previous) await captureShadow(this.db, op.table, op.recordId, op.previous);
+    // A delete carries its clock under "deleted" so the server can order it against edits.
+    const fieldHlc =
+      op.kind === 'delete' ? { deleted: op.hlc } : Object.fromEntries(Object.keys(op.fields).map((field) => [field, op.hlc]));
     await this.db.run(
       `INSERT INTO outbox (op_id, team_id, user_id, tbl, record_id, kind, fields, hlc, created_at)
        VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
@@ -246,6 +341,7 @@ export class DeviceStore {
     return this.tx(async () => {
       const row = await this.observationRow(id);
       const fields: Record<string, unknown> = {};
+      const previous = { mark: row.mark, note: row.note, noteShared: row.note_shared === 1 };
       const sets: string[] = [];
       const params: SqlValue[] = [];
       if (changes.mark !== undefined && changes.mark !== row.mark) {
@@ -265,7 +361,10 @@ export class DeviceStore {
       }
       if (sets.length > 0) {
         await this.db.run(`UPDATE observations SET ${sets.join(', ')} WHERE id = ?`, [...params, id]);
-        const fieldHlc = await this.enqueue({ teamId: row.team_id, userId, table: 'observations', recordId: id, kind: 'upsert', fields, hlc: this.clock.now() });
+        const fieldHlc = await this.enqueue({
+          teamId: row.team_id, userId, table: 'observations', recordId: id, kind: 'upsert', fields, hlc: this.clock.now(),
+          previous: Object.fromEntries(Object.keys(fields).map((f) => [f, previous[f as keyof typeof previous]])),
+        });
         await this.stampRow('observations', id, fieldHlc);
       }
       return toObservation(await this.observationRow(id));
@@ -288,6 +387,7 @@ export class DeviceStore {
         );
         if (sent === 0 && synced === 0) {
           await this.db.run(`DELETE FROM outbox WHERE tbl = 'observations' AND record_id = ?`, [id]);
+          await this.db.run(`DELETE FROM sync_shadow WHERE tbl = 'observations' AND record_id = ?`, [id]);
           await this.db.run(`DELETE FROM observations WHERE id = ?`, [id]);
         } else {
           await this.db.run(`UPDATE observations SET deleted = 1 WHERE id = ?`, [id]);
@@ -357,7 +457,10 @@ export class DeviceStore {
           JSON.stringify(fields.focusCueIds ?? session.focusCueIds),
           id,
         ]);
-        const fieldHlc = await this.enqueue({ teamId: session.teamId, userId, table: 'sessions', recordId: id, kind: 'upsert', fields, hlc: this.clock.now() });
+        const fieldHlc = await this.enqueue({
+          teamId: session.teamId, userId, table: 'sessions', recordId: id, kind: 'upsert', fields, hlc: this.clock.now(),
+          previous: Object.fromEntries(Object.keys(fields).map((f) => [f, session[f as keyof BoardSession]])),
+        });
         await this.stampRow('sessions', id, fieldHlc);
       }
       return (await this.getSession(id))!;
@@ -388,7 +491,7 @@ export class DeviceStore {
       const cue = await this.cueRow(id);
       if (cue.label === text) return;
       await this.db.run(`UPDATE cues SET label = ? WHERE id = ?`, [text, id]);
-      await this.cueChanged(cue.team_id, userId, id, { label: text });
+      await this.cueChanged(cue.team_id, userId, id, { label: text }, { label: cue.label });
     });
   }
 
@@ -397,7 +500,7 @@ export class DeviceStore {
       const cue = await this.cueRow(id);
       if ((cue.archived === 1) === archived) return;
       await this.db.run(`UPDATE cues SET archived = ? WHERE id = ?`, [archived ? 1 : 0, id]);
-      await this.cueChanged(cue.team_id, userId, id, { archived });
+      await this.cueChanged(cue.team_id, userId, id, { archived }, { archived: cue.archived === 1 });
     });
   }
 
@@ -417,15 +520,16 @@ export class DeviceStore {
       [order[index], order[order.indexOf(other.id)]] = [other.id, id];
       for (const [position, cueId] of order.entries()) {
         const sortOrder = position + 1;
-        if (siblings.find((s) => s.id === cueId)!.sort_order === sortOrder) continue;
+        const before = siblings.find((s) => s.id === cueId)!.sort_order;
+        if (before === sortOrder) continue;
         await this.db.run(`UPDATE cues SET sort_order = ? WHERE id = ?`, [sortOrder, cueId]);
-        await this.cueChanged(cue.team_id, userId, cueId, { sortOrder });
+        await this.cueChanged(cue.team_id, userId, cueId, { sortOrder }, { sortOrder: before });
       }
     });
   }
 
-  private async cueChanged(teamId: string, userId: string, id: string, fields: Record<string, unknown>) {
-    const fieldHlc = await this.enqueue({ teamId, userId, table: 'cues', recordId: id, kind: 'upsert', fields, hlc: this.clock.now() });
+  private async cueChanged(teamId: string, userId: string, id: string, fields: Record<string, unknown>, previous: Record<string, unknown>) {
+    const fieldHlc = await this.enqueue({ teamId, userId, table: 'cues', recordId: id, kind: 'upsert', fields, hlc: this.clock.now(), previous });
     await this.stampRow('cues', id, fieldHlc);
   }
 
@@ -519,9 +623,74 @@ export class DeviceStore {
   }
 
   /** Changes waiting to be sent (not counting rejected ones, which wait for the coach). */
-  async pendingCount(): Promise<number> {
-    const [{ n }] = await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'pending'`);
+  async pendingCount(teamId?: string): Promise<number> {
+    const [{ n }] = teamId
+      ? await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'pending' AND team_id = ?`, [teamId])
+      : await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'pending'`);
     return n;
+  }
+
+  /** Changes the server refused, oldest first, each with its reason (for the coach to see). */
+  async listRejected(teamId?: string): Promise<OutboxEntry[]> {
+    const rows = teamId
+      ? await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE status = 'rejected' AND team_id = ? ORDER BY seq`, [teamId])
+      : await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE status = 'rejected' ORDER BY seq`);
+    return rows.map(toOutboxEntry);
+  }
+
+  async rejectedCount(teamId?: string): Promise<number> {
+    const [{ n }] = teamId
+      ? await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'rejected' AND team_id = ?`, [teamId])
+      : await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'rejected'`);
+    return n;
+  }
+
+  /**
+   * Sends a rejected change again with the next sync (the coach fixed what was wrong). It goes
+   * under a new op id: the server's op log has settled the old one as rejected and would only
+   * repeat that answer.
+   */
+  async retryRejected(opId: string): Promise<void> {
+    await this.tx(async () => {
+      const { changes } = await this.db.run(
+        `UPDATE outbox SET op_id = ?, status = 'pending', attempts = 0, last_error = NULL, reject_reason = NULL, sent_at = NULL
+         WHERE op_id = ? AND status = 'rejected'`,
+        [uuidv7(), opId],
+      );
+      if (changes === 0) throw new StoreError('That change is no longer waiting');
+    });
+  }
+
+  /**
+   * Gives up a rejected change. A rejected create takes its local record (and the edits queued
+   * on it) along; a rejected edit puts back the previous value; a rejected delete shows the
+   * record again.
+   */
+  async discardRejected(opId: string): Promise<void> {
+    await this.tx(async () => {
+      const [row] = await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE op_id = ? AND status = 'rejected'`, [opId]);
+      if (!row) throw new StoreError('That change is no longer waiting');
+      const entry = toOutboxEntry(row);
+      const [first] = await this.db.all<{ seq: number }>(`SELECT min(seq) AS seq FROM outbox WHERE tbl = ? AND record_id = ?`, [entry.table, entry.recordId]);
+      const [record] = await this.db.all<{ synced: number }>(`SELECT synced FROM ${entry.table} WHERE id = ?`, [entry.recordId]);
+      const isCreate = entry.kind === 'upsert' && first.seq === entry.seq && (!record || record.synced === 0);
+      if (isCreate) {
+        await this.db.run(`DELETE FROM outbox WHERE tbl = ? AND record_id = ?`, [entry.table, entry.recordId]);
+        await this.db.run(`DELETE FROM sync_shadow WHERE tbl = ? AND record_id = ?`, [entry.table, entry.recordId]);
+        await this.db.run(`DELETE FROM ${entry.table} WHERE id = ?`, [entry.recordId]);
+        return;
+      }
+      await this.db.run(`DELETE FROM outbox WHERE seq = ?`, [entry.seq]);
+      if (entry.kind === 'delete') {
+        const [{ n }] = await this.db.all<{ n: number }>(
+          `SELECT count(*) AS n FROM outbox WHERE tbl = ? AND record_id = ? AND kind = 'delete'`,
+          [entry.table, entry.recordId],
+        );
+        if (n === 0 && entry.table === 'observations') await this.db.run(`UPDATE observations SET deleted = 0 WHERE id = ?`, [entry.recordId]);
+        return;
+      }
+      await releaseDiscarded(this.db, entry.table, entry.recordId, { seq: entry.seq, fields: entry.fields });
+    });
   }
 
   /** Waiting changes per table, for a status line that says what is waiting. */
@@ -535,38 +704,8 @@ export class DeviceStore {
   }
 
   async listOutbox(limit = 500): Promise<OutboxEntry[]> {
-    const rows = await this.db.all<{
-      seq: number;
-      op_id: string;
-      team_id: string;
-      user_id: string;
-      tbl: SyncedTable;
-      record_id: string;
-      kind: 'upsert' | 'delete';
-      fields: string;
-      hlc: string;
-      attempts: number;
-      last_error: string | null;
-      status: 'pending' | 'rejected';
-      sent_at: string | null;
-      created_at: string;
-    }>(`SELECT * FROM outbox ORDER BY seq LIMIT ?`, [limit]);
-    return rows.map((r) => ({
-      seq: r.seq,
-      opId: r.op_id,
-      teamId: r.team_id,
-      userId: r.user_id,
-      table: r.tbl,
-      recordId: r.record_id,
-      kind: r.kind,
-      fields: JSON.parse(r.fields),
-      hlc: JSON.parse(r.hlc),
-      attempts: r.attempts,
-      lastError: r.last_error,
-      status: r.status,
-      sentAt: r.sent_at,
-      createdAt: r.created_at,
-    }));
+    const rows = await this.db.all<OutboxRow>(`SELECT * FROM outbox ORDER BY seq LIMIT ?`, [limit]);
+    return rows.map(toOutboxEntry);
   }
 
   /** The last HLC value this device issued (persisted with every change). */

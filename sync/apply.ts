@@ -1,0 +1,178 @@
+/**
+ * Applies one pulled page to the device, all of it or none of it: changes, tombstones, evictions
+ * and the new cursor are written in ONE device transaction (shared/SYNC.md, "On the device"). A
+ * run cut anywhere therefore resumes from the last page that was fully applied.
+ *
+ * - Changes are written with multi-row `INSERT … ON CONFLICT (id) DO UPDATE` (up to 1000 rows per
+ *   statement, fewer when a row has many columns, well under SQLite's 32,766 bind parameters).
+ *   Pulled rows are `synced = 1`.
+ * - A field with a local edit still in the outbox keeps its local value; the server's value is
+ *   kept in the shadow (sync/shadow.ts) until the edit is acknowledged or discarded.
+ * - A tombstone deletes the row and every outbox entry for it (delete wins) - a queued edit must
+ *   not bring the record back.
+ * - An eviction (the caller may no longer see the record) deletes the row; the caller's own queued
+ *   changes stay in the outbox for the server to judge, and show up as rejected if refused.
+ * - The last page of a full re-sync also sweeps the rows the re-sync did not confirm.
+ */
+import type { Change, PullReply, PullTable } from '../shared/schemas/sync';
+import type { SqlDriver, SqlValue } from './driver';
+import { encodeFields, isPullTable, PULL_TABLES } from './fields';
+import { readShadow, writeShadow } from './shadow';
+import { metaKeys, type DeviceStore } from './store';
+
+export const APPLY_ROWS_PER_STATEMENT = 1000;
+/** SQLite's default SQLITE_MAX_VARIABLE_NUMBER (3.32+). */
+export const SQLITE_MAX_PARAMS = 32_766;
+
+export interface ApplySummary {
+  changes: number;
+  tombstones: number;
+  evictions: number;
+  cursor: number;
+}
+
+type Row = { id: string; names: string[]; columns: string[]; values: SqlValue[]; masked: Set<string> | null; fields: Record<string, unknown> };
+
+const json = (values: readonly unknown[]) => JSON.stringify(values);
+
+async function setMeta(db: SqlDriver, key: string, value: string) {
+  await db.run(`INSERT INTO meta (key, value) VALUES (?, ?) ON CONFLICT (key) DO UPDATE SET value = excluded.value`, [key, value]);
+}
+
+/** Fields hidden by local edits still in the outbox, per `table/id`, for the page's records. */
+async function maskedFields(db: SqlDriver, changes: readonly Change[]): Promise<Map<string, Set<string>>> {
+  const masks = new Map<string, Set<string>>();
+  if (changes.length === 0) return masks;
+  const rows = await db.all<{ tbl: string; record_id: string; fields: string }>(
+    `SELECT tbl, record_id, fields FROM outbox WHERE kind = 'upsert' AND record_id IN (SELECT value FROM json_each(?))`,
+    [json(changes.map((c) => c.id))],
+  );
+  for (const r of rows) {
+    const key = `${r.tbl}/${r.record_id}`;
+    if (!masks.has(key)) masks.set(key, new Set());
+    for (const field of Object.keys(JSON.parse(r.fields) as object)) masks.get(key)!.add(field);
+  }
+  return masks;
+}
+
+/** Multi-row upsert of rows sharing one column list. */
+async function upsertRows(db: SqlDriver, table: PullTable, teamId: string, columns: string[], rows: Row[]) {
+  const perRow = columns.length + 2;
+  const chunk = Math.max(1, Math.min(APPLY_ROWS_PER_STATEMENT, Math.floor(SQLITE_MAX_PARAMS / perRow)));
+  const placeholders = `(${['?', '?', ...columns.map(() => '?')].join(', ')}, 1)`;
+  const updates = [...columns.map((c) => `${c} = excluded.${c}`), 'synced = 1'].join(', ');
+  for (let start = 0; start < rows.length; start += chunk) {
+    const part = rows.slice(start, start + chunk);
+    const params: SqlValue[] = [];
+    for (const row of part) params.push(row.id, teamId, ...row.values);
+    await db.run(
+      `INSERT INTO ${table} (id, team_id, ${columns.map((c) => `${c}, `).join('')}synced) VALUES ${part.map(() => placeholders).join(', ')}
+       ON CONFLICT (id) DO UPDATE SET ${updates}`,
+      params,
+    );
+  }
+}
+
+/** A row with local edits waiting: insert it whole if new, else update only the unhidden fields. */
+async function upsertMaskedRow(db: SqlDriver, table: PullTable, teamId: string, row: Row) {
+  const masked = row.masked!;
+  const updates = [...row.columns.filter((_, i) => !masked.has(row.names[i])).map((c) => `${c} = excluded.${c}`), 'synced = 1'];
+  await db.run(
+    `INSERT INTO ${table} (id, team_id, ${row.columns.map((c) => `${c}, `).join('')}synced)
+     VALUES (${['?', '?', ...row.columns.map(() => '?')].join(', ')}, 1)
+     ON CONFLICT (id) DO UPDATE SET ${updates.join(', ')}`,
+    [row.id, teamId, ...row.values],
+  );
+  const hidden = Object.fromEntries(Object.entries(row.fields).filter(([field]) => masked.has(field)));
+  if (Object.keys(hidden).length > 0) {
+    await writeShadow(db, table, row.id, { ...(await readShadow(db, table, row.id)), ...hidden });
+  }
+}
+
+async function deleteRecords(db: SqlDriver, items: readonly { table: PullTable; id: string }[], dropOutbox: boolean) {
+  const byTable = new Map<PullTable, string[]>();
+  for (const item of items) {
+    if (!isPullTable(item.table)) continue;
+    if (!byTable.has(item.table)) byTable.set(item.table, []);
+    byTable.get(item.table)!.push(item.id);
+  }
+  for (const [table, ids] of byTable) {
+    await db.run(`DELETE FROM ${table} WHERE id IN (SELECT value FROM json_each(?))`, [json(ids)]);
+    await db.run(`DELETE FROM sync_shadow WHERE tbl = ? AND record_id IN (SELECT value FROM json_each(?))`, [table, json(ids)]);
+    if (dropOutbox) await db.run(`DELETE FROM outbox WHERE tbl = ? AND record_id IN (SELECT value FROM json_each(?))`, [table, json(ids)]);
+  }
+}
+
+/** Marks the team's confirmed rows as "to be confirmed again" and restarts from cursor 0. */
+export async function beginFullResync(store: DeviceStore, teamId: string): Promise<void> {
+  const sync = store.syncInternals();
+  await sync.transaction(async () => {
+    for (const table of PULL_TABLES) await sync.db.run(`UPDATE ${table} SET synced = 2 WHERE team_id = ? AND synced = 1`, [teamId]);
+    await setMeta(sync.db, metaKeys.cursor(teamId), '0');
+    await setMeta(sync.db, metaKeys.resync(teamId), '1');
+  });
+}
+
+/**
+ * The end of a full re-sync: rows it did not bring back are gone on the server (their tombstones
+ * expired), unless the unsent outbox still refers to them.
+ */
+async function sweepUnconfirmed(db: SqlDriver, teamId: string) {
+  const keep: Partial<Record<PullTable, string>> = {
+    sessions: `OR id IN (SELECT session_id FROM observations WHERE id IN (SELECT record_id FROM outbox WHERE tbl = 'observations'))`,
+  };
+  for (const table of PULL_TABLES) {
+    await db.run(
+      `DELETE FROM ${table} WHERE team_id = ? AND synced = 2
+         AND NOT (id IN (SELECT record_id FROM outbox WHERE tbl = ?) ${keep[table] ?? ''})`,
+      [teamId, table],
+    );
+    await db.run(`UPDATE ${table} SET synced = 1 WHERE team_id = ? AND synced = 2`, [teamId]);
+    await db.run(`DELETE FROM sync_shadow WHERE tbl = ? AND record_id NOT IN (SELECT id FROM ${table})`, [table]);
+  }
+  await db.run(`DELETE FROM meta WHERE key = ?`, [metaKeys.resync(teamId)]);
+}
+
+export async function applyPullPage(store: DeviceStore, teamId: string, page: PullReply): Promise<ApplySummary> {
+  const sync = store.syncInternals();
+  const { db } = sync;
+  return sync.transaction(async () => {
+    // The newest change per record wins within the page.
+    const latest = new Map<string, Change>();
+    for (const change of page.changes) {
+      const key = `${change.table}/${change.id}`;
+      const seen = latest.get(key);
+      if (!seen || seen.serverSeq <= change.serverSeq) latest.set(key, change);
+    }
+    const changes = [...latest.values()];
+    const masks = await maskedFields(db, changes);
+
+    // Rows sharing a table and column list go into the same multi-row statement.
+    const groups = new Map<string, { table: PullTable; columns: string[]; rows: Row[] }>();
+    const maskedRows: { table: PullTable; row: Row }[] = [];
+    for (const change of changes) {
+      const { names, columns, values } = encodeFields(change.table, change.fields);
+      const row: Row = { id: change.id, names, columns, values, masked: masks.get(`${change.table}/${change.id}`) ?? null, fields: change.fields };
+      if (row.masked) {
+        maskedRows.push({ table: change.table, row });
+        continue;
+      }
+      const key = `${change.table}:${columns.join(',')}`;
+      if (!groups.has(key)) groups.set(key, { table: change.table, columns, rows: [] });
+      groups.get(key)!.rows.push(row);
+    }
+    for (const group of groups.values()) await upsertRows(db, group.table, teamId, group.columns, group.rows);
+    for (const { table, row } of maskedRows) await upsertMaskedRow(db, table, teamId, row);
+
+    await deleteRecords(db, page.tombstones, true);
+    await deleteRecords(db, page.evictions, false);
+
+    await setMeta(db, metaKeys.cursor(teamId), String(page.nextCursor));
+    if (!page.hasMore) {
+      const [resync] = await db.all<{ value: string }>(`SELECT value FROM meta WHERE key = ?`, [metaKeys.resync(teamId)]);
+      if (resync) await sweepUnconfirmed(db, teamId);
+    }
+    sync.receiveClock(page.serverClock);
+    return { changes: page.changes.length, tombstones: page.tombstones.length, evictions: page.evictions.length, cursor: page.nextCursor };
+  });
+}
