@@ -1,8 +1,9 @@
 /**
  * Board benchmark (`npm run bench`): headless Chromium, a device store holding 50,000 earlier
- * observations, then 200 taps on cue chips. For each tap it measures, from the chip's pointer
- * event, (a) the frame that shows the new note in the feed and (b) the commit of the note and its
- * outbox entry to the device store. Also the board's load time with that store. Prints p50/p95.
+ * observations, then two passes of 200 taps on cue chips: a stress pass (60 ms between taps) and a
+ * quick coach's pace (400 ms). For each tap it measures, from the chip's pointer event, (a) the
+ * frame that shows the new note in the feed and (b) the commit of the note and its outbox entry to
+ * the device store. Also the board's load time with that store. Prints p50/p95 per pass.
  *
  * Figures, not assertions: run it, read it, compare runs on the same machine.
  */
@@ -12,6 +13,10 @@ import { execSync } from 'node:child_process';
 const BASE = process.env.BENCH_BASE_URL ?? 'http://127.0.0.1:8434';
 const ROWS = Number(process.env.BENCH_ROWS ?? 50_000);
 const TAPS = Number(process.env.BENCH_TAPS ?? 200);
+const PASSES = [
+  { label: 'stress pass', gapMs: Number(process.env.BENCH_GAP_MS ?? 60) },
+  { label: 'quick-coach pass', gapMs: Number(process.env.BENCH_COACH_GAP_MS ?? 400) },
+];
 
 const quantile = (values: number[], q: number) => {
   const sorted = [...values].sort((a, b) => a - b);
@@ -67,6 +72,39 @@ async function fillDevice(page: Page, teamId: string, userId: string, skaterIds:
     },
     { rows: ROWS, teamId, userId, skaterIds, cueIds },
   );
+}
+
+/**
+ * TAPS taps on the chips, `gapMs` apart; waits for every commit, then pairs each tap's pointerdown
+ * with its commit mark and its first painted frame (both in tap order: the store's queue is serial).
+ */
+async function tapPass(page: Page, cueIds: string[], gapMs: number) {
+  await page.evaluate(() => {
+    (window as any).__taps = [];
+    performance.clearMarks('boardside:committed');
+  });
+  for (let i = 0; i < TAPS; i += 1) {
+    await page.getByTestId(`cue-chip-${cueIds[i % cueIds.length]}`).click();
+    await page.waitForTimeout(gapMs);
+  }
+  await page.waitForFunction((n) => performance.getEntriesByName('boardside:committed').length >= n, TAPS, { timeout: 120_000 });
+  await page.waitForTimeout(1500);
+  return page.evaluate(() => {
+    const w = window as any;
+    const taps: number[] = w.__taps;
+    const commits = performance.getEntriesByName('boardside:committed') as PerformanceMark[];
+    const painted = w.__painted as Map<string, number>;
+    const paint: number[] = [];
+    const commit: number[] = [];
+    commits.slice(-taps.length).forEach((mark, i) => {
+      const id = (mark.detail as string[])[0];
+      const tap = taps[i];
+      commit.push(mark.startTime - tap);
+      const p = painted.get(id);
+      if (p !== undefined && p > 0) paint.push(p - tap);
+    });
+    return { paint, commit, taps: taps.length, commits: commits.length };
+  });
 }
 
 async function main() {
@@ -135,31 +173,15 @@ async function main() {
   });
 
   await page.getByTestId(`skater-tile-${skaters[0].id}`).click();
-  for (let i = 0; i < TAPS; i += 1) {
-    await page.getByTestId(`cue-chip-${cues[i % cues.length].id}`).click();
-    await page.waitForTimeout(60);
+  // Two passes over the same board: a stress pass (taps 60 ms apart, faster than any coach) and a
+  // realistic one (400 ms apart, a quick coach). The second starts with the first pass's notes in
+  // the feed, as it would at the rink.
+  for (const pass of PASSES) {
+    const result = await tapPass(page, cues.map((c) => c.id), pass.gapMs);
+    console.log(`${pass.label} (${pass.gapMs} ms between taps): ${result.taps} taps, ${result.commits} commits, ${result.paint.length} paints seen`);
+    console.log(`  tap -> note shown in the feed (next frame): ${fmt(result.paint)}   (goal p95 <= 16 ms)`);
+    console.log(`  tap -> note + outbox entry committed:       ${fmt(result.commit)}   (goal p95 <= 25 ms)`);
   }
-  await page.waitForTimeout(1500);
-
-  const result = await page.evaluate(() => {
-    const w = window as any;
-    const taps: number[] = w.__taps.slice(1); // the first pointerdown selected the tile
-    const commits = performance.getEntriesByName('boardside:committed') as PerformanceMark[];
-    const painted = w.__painted as Map<string, number>;
-    const paint: number[] = [];
-    const commit: number[] = [];
-    commits.slice(-taps.length).forEach((mark, i) => {
-      const id = (mark.detail as string[])[0];
-      const tap = taps[i];
-      commit.push(mark.startTime - tap);
-      const p = painted.get(id);
-      if (p !== undefined && p > 0) paint.push(p - tap);
-    });
-    return { paint, commit, taps: taps.length, commits: commits.length };
-  });
-  console.log(`${result.taps} taps, ${result.commits} commits`);
-  console.log(`tap -> note shown in the feed (next frame): ${fmt(result.paint)}   (goal p95 <= 16 ms)`);
-  console.log(`tap -> note + outbox entry committed:       ${fmt(result.commit)}   (goal p95 <= 25 ms)`);
   await browser.close();
 }
 

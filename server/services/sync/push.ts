@@ -372,8 +372,10 @@ function settle(op: Op, caller: Caller, state: BatchState, nowIso: string): OpRe
     if (current !== undefined && incoming <= current) continue;
     record.fieldHlc = { ...record.fieldHlc, [field]: incoming };
     record.values[field] = values[field];
-    record.dirty = true;
   }
+  // Restamped even when an older clock lost every field: the row then comes down again in the
+  // sender's next pull, and the device replaces its losing local value with the winner.
+  record.dirty = true;
   return { opId: op.opId, status: 'applied' };
 }
 
