@@ -43,12 +43,15 @@ type AuthBridge = {
   onRefreshed: (session: Session) => void;
   /** Called when a refresh is refused: the session is over. */
   onSignedOut: () => void;
+  /** Whether someone is signed in (possibly from memory, without a token). */
+  isSignedIn: () => boolean;
 };
 
 let bridge: AuthBridge = {
   getAccessToken: () => null,
   onRefreshed: () => undefined,
   onSignedOut: () => undefined,
+  isSignedIn: () => false,
 };
 
 export function configureApiAuth(next: AuthBridge) {
@@ -155,7 +158,9 @@ export async function apiRequest<T = unknown>(path: string, options: RequestOpti
 
   // Only retry requests that carried a token: a 401 from sign-in means a wrong password, not an
   // expired session.
-  if (response.status === 401 && token && !options.skipRefresh) {
+  // A device signed in from memory (offline start) has no token yet: its first 401 after the
+  // network returns is the moment to get one.
+  if (response.status === 401 && (token || bridge.isSignedIn()) && !options.skipRefresh) {
     const outcome = await refreshSession();
     if (outcome.status === 'ok') {
       bridge.onRefreshed(outcome.session);

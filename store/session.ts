@@ -107,6 +107,7 @@ configureApiAuth({
   getAccessToken: () => useSession.getState().accessToken,
   onRefreshed: (session) => useSession.getState().setSession(session),
   onSignedOut: () => useSession.getState().signOutLocally(),
+  isSignedIn: () => useSession.getState().status === 'signedIn',
 });
 
 /** Test helper: forget that bootstrap ran. */

@@ -13,6 +13,8 @@
  *   device queries (e.g. `client.invalidateQueries({ queryKey: boardKeys.all })`).
  */
 import { useEffect, useRef } from 'react';
+import { v5 as uuidv5 } from 'uuid';
+import { useSession } from './session';
 import { create } from 'zustand';
 import { deviceStore } from '../sync';
 import { synchronize, type SyncResult } from '../sync/engine';
@@ -38,6 +40,9 @@ export type SyncStatus = {
   /** Changes the server refused, waiting for the coach (see listRejectedChanges). */
   rejected: number;
 };
+
+/** Namespace for per-(device, user) client ids. */
+const CLIENT_NAMESPACE = '2b7f3c1e-9d4a-4f0b-8e6c-5a1d2c3b4e5f';
 
 export const useSyncStatus = create<SyncStatus>()(() => ({
   teamId: null,
@@ -67,10 +72,14 @@ export function runSync(teamId: string, onChanged?: () => void): Promise<SyncRes
     useSyncStatus.setState({ teamId, running: true, progress: null });
     try {
       const store = await deviceStore();
+      const userId = useSession.getState().user?.id;
+      if (!userId) throw new Error('Sign in to sync');
       const result = await synchronize({
         store,
         transport: httpSyncTransport,
         teamId,
+        // The server ties a client id to one user: a device shared by two coaches is two clients.
+        clientId: uuidv5(`${store.clientId}/${userId}`, CLIENT_NAMESPACE),
         onProgress: (progress) => useSyncStatus.setState({ progress }),
       });
       useSyncStatus.setState({ error: null });

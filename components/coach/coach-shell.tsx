@@ -8,12 +8,16 @@
  * Built on expo-router's headless tabs so the same triggers drive both layouts.
  */
 import { TabList, TabSlot, TabTrigger, Tabs, type TabTriggerSlotProps } from 'expo-router/ui';
-import { forwardRef } from 'react';
+import { useQueryClient } from '@tanstack/react-query';
+import { forwardRef, useCallback, useState } from 'react';
 import { Pressable, StyleSheet, View, type View as ViewType } from 'react-native';
 import { SafeAreaView } from 'react-native-safe-area-context';
 
 import { roleLabels } from '../../shared/schemas';
 import { useSignOut } from '../../store/auth';
+import { boardKeys } from '../../store/board';
+import { useSyncTriggers } from '../../store/sync-status';
+import { SyncPanel, SyncSummary } from '../sync/sync-control';
 import { useActiveMembership, useSession } from '../../store/session';
 import { Button, Text, colors, layout, radius, spacing, tapTarget, useBreakpoint } from '../ui';
 import { SectionIcon, type CoachSection } from './tab-icons';
@@ -72,6 +76,11 @@ export function CoachShell() {
   const user = useSession((s) => s.user);
   const teamName = membership?.teamName ?? '';
   const roleLabel = membership ? roleLabels[membership.role] : '';
+  const [syncOpen, setSyncOpen] = useState(false);
+  const client = useQueryClient();
+  const refetchDevice = useCallback(() => void client.invalidateQueries({ queryKey: boardKeys.all }), [client]);
+  // Sync runs on its own (open, reconnect, focus, quiet period after taps); the panel runs it by hand.
+  useSyncTriggers(membership?.teamId, refetchDevice);
 
   return (
     <SafeAreaView style={styles.safe} edges={['top', 'bottom', 'left', 'right']}>
@@ -98,6 +107,7 @@ export function CoachShell() {
           ))}
           {wide ? (
             <View style={styles.railFooter}>
+              <SyncSummary onOpen={() => setSyncOpen(true)} />
               <SignOutButton />
             </View>
           ) : null}
@@ -113,10 +123,17 @@ export function CoachShell() {
                 {roleLabel}
               </Text>
             </View>
+            <SyncSummary onOpen={() => setSyncOpen(true)} />
             <SignOutButton />
           </View>
         )}
       </Tabs>
+      {syncOpen ? (
+        <View style={styles.overlay}>
+          <Pressable style={styles.backdrop} onPress={() => setSyncOpen(false)} accessibilityLabel="Close sync details" />
+          <SyncPanel onClose={() => setSyncOpen(false)} />
+        </View>
+      ) : null}
     </SafeAreaView>
   );
 }
@@ -173,5 +190,7 @@ const styles = StyleSheet.create({
     borderRadius: radius.md,
   },
   railButtonActive: { backgroundColor: colors.primary },
-  railFooter: { marginTop: 'auto', alignItems: 'flex-start' },
+  railFooter: { marginTop: 'auto', alignItems: 'flex-start', gap: spacing.xs },
+  overlay: { position: 'absolute', top: 0, left: 0, right: 0, bottom: 0, alignItems: 'center', justifyContent: 'center', padding: spacing.md },
+  backdrop: { position: 'absolute', top: 0, left: 0, right: 0, bottom: 0, backgroundColor: 'rgba(11, 29, 42, 0.45)' },
 });
