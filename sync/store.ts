@@ -191,6 +191,54 @@ const toSession = (r: SessionRow): BoardSession => ({
   createdBy: r.created_by,
 });
 
+/** A note as the skater (or guardian) reads it: the observation with its cue's text and phase. */
+export interface SkaterNote {
+  id: string;
+  sessionId: string;
+  cueId: string;
+  /** The cue's text; null if the cue has not reached this device. */
+  cueLabel: string | null;
+  phase: Phase | null;
+  /** The cue's place within its phase (for a stable order). */
+  cueOrder: number;
+  mark: Mark;
+  note: string;
+  noteShared: boolean;
+  createdAt: string;
+  createdBy: string;
+  acknowledgedAt: string | null;
+}
+
+/** A rink day with notes for one skater. */
+export interface SkaterDay {
+  day: string;
+  count: number;
+  /** Notes not acknowledged yet. */
+  unacknowledged: number;
+}
+
+type SkaterNoteRow = Omit<ObservationRow, 'team_id' | 'skater_id'> & {
+  acknowledged_at: string | null;
+  cue_label: string | null;
+  cue_phase: Phase | null;
+  cue_order: number | null;
+};
+
+const toSkaterNote = (r: SkaterNoteRow): SkaterNote => ({
+  id: r.id,
+  sessionId: r.session_id,
+  cueId: r.cue_id,
+  cueLabel: r.cue_label,
+  phase: r.cue_phase,
+  cueOrder: r.cue_order ?? 0,
+  mark: r.mark,
+  note: r.note,
+  noteShared: r.note_shared === 1,
+  createdAt: r.created_at,
+  createdBy: r.created_by,
+  acknowledgedAt: r.acknowledged_at,
+});
+
 const OBSERVATION_COLUMNS = 'id, team_id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by';
 
 export class DeviceStore {
@@ -706,6 +754,66 @@ export class DeviceStore {
   async listOutbox(limit = 500): Promise<OutboxEntry[]> {
     const rows = await this.db.all<OutboxRow>(`SELECT * FROM outbox ORDER BY seq LIMIT ?`, [limit]);
     return rows.map(toOutboxEntry);
+  }
+
+  // ---- the skater's view (skater or guardian) ------------------------------------------------
+
+  /**
+   * One skater's notes of one rink day (the session's `day`), oldest first, with each cue's text
+   * and phase. Tombstones are left out. A note whose session has not reached this device yet
+   * counts under the UTC day of its creation time. The note text is returned as stored: screens
+   * show it only when `noteShared` (the server blanks private text for skaters anyway).
+   */
+  async listForSkater(teamId: string, skaterId: string, day: string): Promise<SkaterNote[]> {
+    const rows = await this.db.all<SkaterNoteRow>(
+      `SELECT o.id, o.session_id, o.cue_id, o.mark, o.note, o.note_shared, o.created_at, o.created_by, o.acknowledged_at,
+              c.label AS cue_label, c.phase AS cue_phase, c.sort_order AS cue_order
+       FROM observations o
+       LEFT JOIN sessions s ON s.id = o.session_id
+       LEFT JOIN cues c ON c.id = o.cue_id
+       WHERE o.team_id = ? AND o.skater_id = ? AND o.deleted = 0 AND coalesce(s.day, substr(o.created_at, 1, 10)) = ?
+       ORDER BY o.created_at, o.id`,
+      [teamId, skaterId, day],
+    );
+    return rows.map(toSkaterNote);
+  }
+
+  /** The most recent rink days with notes for the skater, newest first, with counts. */
+  async daysForSkater(teamId: string, skaterId: string, limit = 14): Promise<SkaterDay[]> {
+    const rows = await this.db.all<{ day: string; total: number; open: number }>(
+      `SELECT coalesce(s.day, substr(o.created_at, 1, 10)) AS day, count(*) AS total,
+              sum(CASE WHEN o.acknowledged_at IS NULL THEN 1 ELSE 0 END) AS open
+       FROM observations o
+       LEFT JOIN sessions s ON s.id = o.session_id
+       WHERE o.team_id = ? AND o.skater_id = ? AND o.deleted = 0
+       GROUP BY 1 ORDER BY 1 DESC LIMIT ?`,
+      [teamId, skaterId, Math.max(1, Math.trunc(limit))],
+    );
+    return rows.map((r) => ({ day: r.day, count: r.total, unacknowledged: r.open }));
+  }
+
+  /**
+   * The skater (or their guardian) says "got it": sets acknowledged_at and queues the change, in
+   * one transaction. A note already acknowledged stays as it is (no second change is queued).
+   * Resolves to the acknowledgement time.
+   */
+  async acknowledgeObservation(id: string, userId: string): Promise<string> {
+    return this.tx(async () => {
+      const row = await this.observationRow(id);
+      const [{ acknowledged_at: already }] = await this.db.all<{ acknowledged_at: string | null }>(
+        `SELECT acknowledged_at FROM observations WHERE id = ?`,
+        [id],
+      );
+      if (already) return already;
+      const acknowledgedAt = new Date(this.now()).toISOString();
+      await this.db.run(`UPDATE observations SET acknowledged_at = ? WHERE id = ?`, [acknowledgedAt, id]);
+      const fieldHlc = await this.enqueue({
+        teamId: row.team_id, userId, table: 'observations', recordId: id, kind: 'upsert', fields: { acknowledgedAt }, hlc: this.clock.now(),
+        previous: { acknowledgedAt: null },
+      });
+      await this.stampRow('observations', id, fieldHlc);
+      return acknowledgedAt;
+    });
   }
 
   /** The last HLC value this device issued (persisted with every change). */

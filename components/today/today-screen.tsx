@@ -1,39 +1,219 @@
 /**
- * The skater's (or guardian's) "today": a greeting for now; today's cues from every coach, read
- * aloud and acknowledged, arrive with sync.
+ * The skater's (or guardian's) "today": the day's cues from every coach, grouped by phase, each
+ * with its mark, the coach's shared note and "Got it"; read aloud on request; earlier days one
+ * tap away; a sync line with "Refresh". Everything is read from the device, so it works at the
+ * rink without a network. On a phone one column; from 1024 px the days sit in a side pane and the
+ * cues beside them.
  */
+import { useQueryClient } from '@tanstack/react-query';
+import { useMemo, useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+
 import { useSignOut } from '../../store/auth';
+import { useConnectivity } from '../../store/connectivity';
 import { useActiveMembership, useSession } from '../../store/session';
-import { Button, Heading, PlaceholderPanel, Screen, Text } from '../ui';
+import { runSync } from '../../store/sync-status';
+import { refreshToday, todayOnDevice, useAcknowledge, useSkaterDays, useSkaterName, useSkaterNotes } from '../../store/today';
+import { Banner, Button, Heading, Screen, Text, colors, layout, radius, spacing, useBreakpoint } from '../ui';
+import { DayHeader, RecentDays } from './day-chooser';
+import { groupByPhase, longDay, offeredDays, plural, shortDay, spokenScript } from './format';
+import { NoteCard } from './note-card';
+import { ReadAloud } from './read-aloud';
 import { SafetyNote } from './safety-note';
+import { SyncLine } from './sync-line';
+
+const firstName = (name: string | null | undefined) => (name ?? '').trim().split(/\s+/)[0] ?? '';
+const possessive = (name: string) => (name.endsWith('s') ? `${name}’` : `${name}’s`);
 
 export function TodayScreen() {
+  const wide = useBreakpoint() === 'wide';
+  const client = useQueryClient();
   const user = useSession((s) => s.user);
+  const signedInOffline = useSession((s) => s.offline);
+  const serverOnline = useConnectivity((s) => s.online);
+  const offline = signedInOffline || !serverOnline;
   const membership = useActiveMembership();
   const signOut = useSignOut();
-  const firstName = user?.displayName.split(' ')[0] ?? '';
+
+  const teamId = membership?.teamId ?? '';
+  const skaterId = membership?.skaterId ?? '';
   const guardian = membership?.role === 'guardian';
+
+  const [today] = useState(todayOnDevice);
+  const [selected, setSelected] = useState(today);
+
+  const skaterName = useSkaterName(teamId, skaterId);
+  const days = useSkaterDays(teamId, skaterId);
+  const notes = useSkaterNotes(teamId, skaterId, selected);
+  const acknowledge = useAcknowledge();
+
+  const groups = useMemo(() => groupByPhase(notes.data ?? []), [notes.data]);
+  const offered = useMemo(() => offeredDays(days.data ?? [], today, selected), [days.data, today, selected]);
+  const dayLabel = selected === today ? 'Today' : longDay(selected, today);
+  const script = useMemo(() => spokenScript(groups, dayLabel), [groups, dayLabel]);
+  const total = notes.data?.length ?? 0;
+  const open = (notes.data ?? []).filter((n) => !n.acknowledgedAt).length;
+  const lastDayWithCues = (days.data ?? []).find((d) => d.day !== selected && d.count > 0) ?? null;
+
+  const skaterFirst = firstName(skaterName) || (guardian ? 'Your skater' : firstName(user?.displayName));
+  const heading = guardian ? `${possessive(skaterFirst)} cues` : skaterFirst ? `Hi ${skaterFirst}` : 'Hi';
+  const refresh = () => void runSync(teamId, () => void refreshToday(client));
+  const onAcknowledge = (id: string) => acknowledge.mutate({ teamId, skaterId, day: selected, id });
+
+  const greeting = (
+    <View style={styles.greeting}>
+      <Heading testID="today-heading">{heading}</Heading>
+      {guardian ? (
+        <Text variant="bodyLarge" testID="guardian-note">
+          You are viewing as {possessive(skaterFirst)} guardian
+          {membership?.teamName ? <Text variant="bodyLarge" tone="muted">{` · ${membership.teamName}`}</Text> : null}
+        </Text>
+      ) : (
+        <Text variant="bodyLarge" testID="skater-team">
+          Skating with{' '}
+          <Text variant="bodyLarge" weight="bold">
+            {membership?.teamName ?? ''}
+          </Text>
+        </Text>
+      )}
+    </View>
+  );
+
+  const syncLine = <SyncLine offline={offline} onRefresh={refresh} />;
+
+  const chooserProps = { offered, selected, today, onSelect: setSelected };
+
+  const dayBody = !skaterId ? (
+    <Banner kind="info" testID="today-no-skater">
+      This account is not linked to a skater profile yet. Ask your head coach to link it.
+    </Banner>
+  ) : notes.isPending ? (
+    <Text tone="muted" testID="today-loading">
+      Opening your cues…
+    </Text>
+  ) : notes.error ? (
+    <Banner kind="error" testID="today-error">
+      {`Your cues could not be read on this device: ${notes.error.message}`}
+    </Banner>
+  ) : total === 0 ? (
+    <View style={styles.empty} testID="today-empty">
+      <Text variant="title" weight="bold">
+        {selected === today ? 'No cues from your coaches today' : `No cues from your coaches on ${longDay(selected, today)}`}
+      </Text>
+      {lastDayWithCues ? (
+        <>
+          <Text testID="today-last-day">
+            {`The last cues came ${shortDay(lastDayWithCues.day, today) === 'Yesterday' ? 'yesterday' : `on ${longDay(lastDayWithCues.day, today)}`}: ${plural(lastDayWithCues.count, 'cue', 'cues')}.`}
+          </Text>
+          <Button
+            label={`Show ${shortDay(lastDayWithCues.day, today)}`}
+            variant="secondary"
+            testID="today-show-last"
+            onPress={() => setSelected(lastDayWithCues.day)}
+            style={styles.start}
+          />
+        </>
+      ) : (
+        <Text tone="muted">{offline ? 'When you are back online, Refresh fetches new cues.' : 'Cues appear here after your coaches note them.'}</Text>
+      )}
+    </View>
+  ) : (
+    <View style={styles.groups}>
+      <View style={styles.summaryRow}>
+        <Text variant="bodyLarge" weight="bold" testID="today-summary" style={styles.grow}>
+          {open === 0 ? `${plural(total, 'cue', 'cues')}, all acknowledged` : `${plural(total, 'cue', 'cues')}, ${open} to acknowledge`}
+        </Text>
+        <ReadAloud lines={script} resetKey={selected} />
+      </View>
+      {acknowledge.error ? (
+        <Banner kind="error" testID="today-ack-error">
+          {`That could not be saved: ${acknowledge.error.message}`}
+        </Banner>
+      ) : null}
+      {groups.map((group) => (
+        <View key={group.key} style={styles.group} testID={`phase-${group.key}`} accessibilityRole="list" accessibilityLabel={group.label}>
+          <Heading level={3} testID={`phase-title-${group.key}`} style={styles.phaseTitle}>
+            {`${group.label} (${group.notes.length})`}
+          </Heading>
+          <View style={wide ? styles.cardsWide : styles.cards}>
+            {group.notes.map((note) => (
+              <View key={note.id} style={wide ? styles.cardWide : undefined}>
+                <NoteCard note={note} onAcknowledge={onAcknowledge} guardian={guardian} />
+              </View>
+            ))}
+          </View>
+        </View>
+      ))}
+    </View>
+  );
+
+  const signOutButton = (
+    <Button label="Sign out" variant="quiet" testID="sign-out" loading={signOut.isPending} onPress={() => signOut.mutate()} style={styles.start} />
+  );
+
+  if (wide) {
+    return (
+      <Screen testID="skater-home">
+        <View style={styles.wideRow}>
+          <View style={styles.side} testID="today-side">
+            {greeting}
+            {syncLine}
+            <RecentDays {...chooserProps} wide />
+            <SafetyNote />
+            {signOutButton}
+          </View>
+          <View style={styles.main} testID="today-main">
+            <DayHeader {...chooserProps} wide />
+            {dayBody}
+          </View>
+        </View>
+      </Screen>
+    );
+  }
+
   return (
     <Screen testID="skater-home">
-      <Heading>{firstName ? `Hi ${firstName}` : 'Hi'}</Heading>
-      <Text variant="bodyLarge" testID="skater-team">
-        {guardian ? 'Following a skater in ' : 'Skating with '}
-        <Text variant="bodyLarge" weight="bold">
-          {membership?.teamName ?? ''}
-        </Text>
-      </Text>
-      <PlaceholderPanel title="Today’s cues will show here" testID="today-placeholder">
-        After each session your coaches’ cues for you appear here, newest first. You will be able to have them read
-        aloud and tick them off, and see your lap times and targets.
-      </PlaceholderPanel>
+      {greeting}
+      {syncLine}
+      <View style={styles.days}>
+        <DayHeader {...chooserProps} />
+        <RecentDays {...chooserProps} wide={false} />
+      </View>
+      {dayBody}
       <SafetyNote />
-      <Button
-        label="Sign out"
-        variant="secondary"
-        testID="sign-out"
-        loading={signOut.isPending}
-        onPress={() => signOut.mutate()}
-      />
+      {signOutButton}
     </Screen>
   );
 }
+
+const styles = StyleSheet.create({
+  greeting: { gap: spacing.xxs },
+  days: { gap: spacing.sm },
+  empty: {
+    gap: spacing.sm,
+    padding: spacing.lg,
+    borderRadius: radius.lg,
+    borderWidth: 1,
+    borderColor: colors.divider,
+    backgroundColor: colors.surface,
+  },
+  start: { alignSelf: 'flex-start' },
+  groups: { gap: spacing.lg },
+  summaryRow: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: spacing.sm },
+  grow: { flexGrow: 1, flexShrink: 1 },
+  group: { gap: spacing.sm },
+  phaseTitle: { borderBottomWidth: 2, borderBottomColor: colors.primary, paddingBottom: spacing.xxs },
+  cards: { gap: spacing.sm },
+  cardsWide: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.md },
+  // Two columns of equal cards (a lone card keeps its width, not a pane-wide button).
+  cardWide: { width: '48%' },
+  wideRow: { flexDirection: 'row', alignItems: 'flex-start', gap: spacing.xl },
+  side: {
+    width: layout.railWidth + 112,
+    gap: spacing.lg,
+    padding: spacing.lg,
+    borderRadius: radius.lg,
+    backgroundColor: colors.surfaceSunken,
+  },
+  main: { flex: 1, minWidth: 0, gap: spacing.lg },
+});

@@ -1,0 +1,77 @@
+/**
+ * The skater's sync line: when this device last heard from the server, "Offline" in words when it
+ * cannot, acknowledgements still waiting to be sent, and "Refresh" to sync now.
+ */
+import { StyleSheet, View } from 'react-native';
+
+import { useSyncStatus } from '../../store/sync-status';
+import { Button, Text, colors, radius, spacing } from '../ui';
+import { clockTime, plural } from './format';
+
+export function lastSyncText(iso: string | null, now = new Date()): string {
+  if (!iso) return 'Not synced on this device yet';
+  const at = new Date(iso);
+  if (at.toDateString() === now.toDateString()) return `Last synced ${clockTime(iso)}`;
+  return `Last synced ${at.getDate()} ${at.toLocaleDateString('en-GB', { month: 'short' })} ${clockTime(iso)}`;
+}
+
+export interface SyncLineProps {
+  offline: boolean;
+  onRefresh: () => void;
+}
+
+export function SyncLine({ offline, onRefresh }: SyncLineProps) {
+  const { lastSyncAt, running, pending, error } = useSyncStatus();
+  return (
+    <View style={styles.wrap} testID="today-sync" accessibilityRole="summary">
+      <View style={styles.line}>
+        {offline ? (
+          <View style={styles.offline} testID="today-offline" accessibilityLabel="Offline: your cues are kept on this device">
+            <View style={styles.ring} />
+            <Text weight="bold">Offline</Text>
+          </View>
+        ) : null}
+        <Text tone="muted" testID="today-last-sync" style={styles.grow}>
+          {running ? 'Syncing…' : lastSyncText(lastSyncAt)}
+        </Text>
+        <Button
+          label="Refresh"
+          variant="secondary"
+          testID="today-refresh"
+          loading={running}
+          onPress={onRefresh}
+          accessibilityHint="Fetches new cues from your coaches"
+        />
+      </View>
+      {pending > 0 ? (
+        <Text variant="caption" weight="bold" testID="today-pending">
+          {plural(pending, 'acknowledgement', 'acknowledgements')} waiting to be sent
+        </Text>
+      ) : null}
+      {error && !running ? (
+        <Text variant="caption" tone="error" testID="today-sync-error">
+          {offline ? 'Could not reach the server. Your cues on this device are still here.' : error}
+        </Text>
+      ) : null}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  wrap: { gap: spacing.xxs },
+  line: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm, flexWrap: 'wrap' },
+  grow: { flexShrink: 1, flexGrow: 1 },
+  // A hollow ring plus the word: offline is told by text, never by colour.
+  offline: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    gap: spacing.xxs,
+    paddingHorizontal: spacing.sm,
+    paddingVertical: 2,
+    borderRadius: radius.pill,
+    borderWidth: 2,
+    borderColor: colors.ink,
+    backgroundColor: colors.surface,
+  },
+  ring: { width: 12, height: 12, borderRadius: 6, borderWidth: 2, borderColor: colors.ink },
+});
