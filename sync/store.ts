@@ -154,6 +154,7 @@ type ObservationRow = {
   note_shared: number;
   created_at: string;
   created_by: string;
+  acknowledged_at?: string | null;
 };
 
 const toObservation = (r: ObservationRow): Observation => ({
@@ -167,6 +168,7 @@ const toObservation = (r: ObservationRow): Observation => ({
   noteShared: r.note_shared === 1,
   createdAt: r.created_at,
   createdBy: r.created_by,
+  acknowledgedAt: r.acknowledged_at ?? null,
 });
 
 type SessionRow = {
@@ -447,7 +449,7 @@ export class DeviceStore {
 
   private async observationRow(id: string): Promise<ObservationRow & { deleted: number }> {
     const [row] = await this.db.all<ObservationRow & { deleted: number }>(
-      `SELECT ${OBSERVATION_COLUMNS}, deleted FROM observations WHERE id = ?`,
+      `SELECT ${OBSERVATION_COLUMNS}, acknowledged_at, deleted FROM observations WHERE id = ?`,
       [id],
     );
     if (!row || row.deleted) throw new StoreError('That note no longer exists');
@@ -659,7 +661,7 @@ export class DeviceStore {
   /** The session's notes, newest first (tombstones excluded). */
   async listObservations(sessionId: string): Promise<Observation[]> {
     const rows = await this.db.all<ObservationRow>(
-      `SELECT ${OBSERVATION_COLUMNS} FROM observations WHERE session_id = ? AND deleted = 0 ORDER BY created_at DESC, id DESC`,
+      `SELECT ${OBSERVATION_COLUMNS}, acknowledged_at FROM observations WHERE session_id = ? AND deleted = 0 ORDER BY created_at DESC, id DESC`,
       [sessionId],
     );
     return rows.map(toObservation);

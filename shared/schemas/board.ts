@@ -37,6 +37,8 @@ export const observationSchema = z.object({
   noteShared: z.boolean(),
   createdAt: z.string(),
   createdBy: z.uuid(),
+  /** When the skater (or their guardian) acknowledged the cue; set on their device, synced back. */
+  acknowledgedAt: z.string().nullable().optional(),
 });
 export type Observation = z.infer<typeof observationSchema>;
 
