@@ -24,5 +24,11 @@ build_web
 )
 wait_http "http://127.0.0.1:$BENCH_PORT/api/health" "the bench server" "$DATA/bench-server.log"
 
+log "sync: push and pull throughput against raw PostgreSQL (50,000 observations)"
+BENCH_BASE_URL="http://127.0.0.1:$BENCH_PORT" tsx bench/sync.ts
+
 log "board: 50,000 stored observations, 200 taps"
 BENCH_BASE_URL="http://127.0.0.1:$BENCH_PORT" tsx bench/board.ts
+
+log "sync convergence: 20 clients x 500 ops, requests and replies lost, clocks skewed"
+tsx bench/convergence.ts

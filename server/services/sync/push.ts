@@ -4,15 +4,16 @@
  *
  *   Push.1  the team counter is bumped first: its row lock serialises this team's pushes and makes
  *           server_seq commit in order ("Server order").
- *   Push.2  op ids go into op_log with ON CONFLICT DO NOTHING; ids already there (a retry after a
- *           lost reply) answer `duplicate` with the stored result and are not applied again.
+ *   Push.2  op ids already in op_log (a retry after a lost reply) answer `duplicate` with the stored
+ *           result and are not applied again. The counter lock of Push.1 serialises the team's
+ *           pushes, so no other transaction can add this team's op ids before COMMIT: one read tells.
  *   Push.3  each new op is checked for role (permission), field values (validation) and, for an
  *           unknown record, whether it carries what a new record needs (unknown_record).
  *   Push.4  merge per field ("Conflicts"): newest HLC wins per field, incoming clocks clamped to
  *           server now + 60 s, and a delete wins over any edit (a tombstone is never resurrected).
  *   Push.5  changed rows are written with unnest() bulk upserts (parameters per column, never per
  *           row, so the 65,535 bind-parameter limit cannot be reached), each with a fresh server_seq.
- *   Push.6  each op's result is stored in op_log (one bulk UPDATE), then COMMIT.
+ *   Push.6  each new op id goes into op_log with its result (one bulk INSERT), then COMMIT.
  *
  * Any database error rolls the whole batch back; the route answers 503 and nothing is applied.
  */
@@ -82,26 +83,17 @@ export async function applyPush(dataSource: DataSource, caller: Caller, body: Pu
     await lockCounter(runner, teamId);
 
     // Push.2: which op ids are new? (A repeated id inside one batch counts once: the first.)
+    // (A single read: the counter lock above keeps every other push of this team out until COMMIT,
+    // and Push.6 writes each id together with its result.)
     const uniqueIds = [...new Set(ops.map((op) => op.opId))];
-    const inserted = await rows<{ op_id: string }>(
-      runner,
-      `INSERT INTO op_log (team_id, op_id, client_id, user_id)
-       SELECT $1, op_id, $3, $4 FROM unnest($2::uuid[]) AS o(op_id)
-       ON CONFLICT (team_id, op_id) DO NOTHING
-       RETURNING op_id`,
-      [teamId, uniqueIds, clientId, caller.userId],
-    );
-    const fresh = new Set(inserted.map((r) => r.op_id));
     const stored = new Map<string, OpResult>();
-    const seen = uniqueIds.filter((id) => !fresh.has(id));
-    if (seen.length > 0) {
-      const old = await rows<{ op_id: string; result: OpResult | null }>(
-        runner,
-        `SELECT op_id, result FROM op_log WHERE team_id = $1 AND op_id = ANY($2::uuid[])`,
-        [teamId, seen],
-      );
-      for (const r of old) stored.set(r.op_id, r.result ?? { opId: r.op_id, status: 'applied' });
-    }
+    const old = await rows<{ op_id: string; result: OpResult | null }>(
+      runner,
+      `SELECT op_id, result FROM op_log WHERE team_id = $1 AND op_id = ANY($2::uuid[])`,
+      [teamId, uniqueIds],
+    );
+    for (const r of old) stored.set(r.op_id, r.result ?? { opId: r.op_id, status: 'applied' });
+    const fresh = new Set(uniqueIds.filter((id) => !stored.has(id)));
 
     // Push.3 + Push.4: load what the new ops touch or point at, then settle each op in order.
     const newOps: Op[] = [];
@@ -126,17 +118,15 @@ export async function applyPush(dataSource: DataSource, caller: Caller, body: Pu
       await writeObservations(runner, teamId, stamped.filter((s) => s.record.table === 'observations'));
     }
 
-    // Push.6: every new op's result (rejected ones too), so a retry answers the same.
-    if (results.size > 0) {
-      for (let i = 0; i < newOps.length; i += WRITE_CHUNK) {
-        const chunk = newOps.slice(i, i + WRITE_CHUNK);
-        await runner.query(
-          `UPDATE op_log o SET result = r.result
-             FROM unnest($2::uuid[], $3::jsonb[]) AS r(op_id, result)
-            WHERE o.team_id = $1 AND o.op_id = r.op_id`,
-          [teamId, chunk.map((op) => op.opId), chunk.map((op) => JSON.stringify(results.get(op.opId)))],
-        );
-      }
+    // Push.6: every new op id with its result (rejected ones too), so a retry answers the same. A
+    // plain INSERT: an id that is somehow there already fails the batch (503) rather than apply twice.
+    for (let i = 0; i < newOps.length; i += WRITE_CHUNK) {
+      const chunk = newOps.slice(i, i + WRITE_CHUNK);
+      await runner.query(
+        `INSERT INTO op_log (team_id, op_id, client_id, user_id, result)
+         SELECT $1, op_id, $3, $4, result FROM unnest($2::uuid[], $5::jsonb[]) AS r(op_id, result)`,
+        [teamId, chunk.map((op) => op.opId), clientId, caller.userId, chunk.map((op) => JSON.stringify(results.get(op.opId)))],
+      );
     }
     await runner.commitTransaction();
 

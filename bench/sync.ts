@@ -1,0 +1,329 @@
+/**
+ * Sync throughput benchmark (`npm run bench`, shared/SYNC.md "Speed targets"): the push and pull
+ * endpoints against what PostgreSQL does with the same rows when asked directly, in the same run.
+ *
+ *   raw upsert      observation rows (every column, field_hlc and server_seq included) written
+ *                   straight through pg: INSERT ... SELECT FROM unnest(...) ON CONFLICT (team_id, id)
+ *                   DO UPDATE, 500 rows per statement.
+ *   push, 1 client  the same number of observation create ops through POST /api/sync/push in
+ *                   pushes of 500 ops (the device's batch), one after another: HTTP, JSON, zod,
+ *                   auth, membership, op_log, merge and the write.
+ *   push, 2 clients the same number of ops split over two clients of two teams pushing at once.
+ *   raw paged read  keyset pages of 1000 rows: SELECT ... WHERE team_id = $1 AND server_seq > $2
+ *                   ORDER BY server_seq LIMIT 1000, until a page comes back short.
+ *   pull            GET /api/sync/pull?teamId&cursor&limit=1000 until hasMore is false, over the
+ *                   same team (its observations plus its session, cues and skaters).
+ *
+ * Every measurement is warmed up once with a small batch on a team of its own, then run
+ * BENCH_SYNC_RUNS times (fresh teams for every write run, so runs never collide); the table shows
+ * the median. Figures and ratios, not assertions: the targets are push / raw upsert >= 0.25 and
+ * pull / raw read >= 0.25.
+ */
+import { performance } from 'node:perf_hooks';
+import { Client } from 'pg';
+import { v7 as uuidv7 } from 'uuid';
+import { HybridClock } from '../shared/hlc';
+import { SYNC_PULL_MAX_LIMIT, SYNC_PUSH_MAX_OPS, type Op, type PullReply, type PushReply } from '../shared/schemas/sync';
+
+const BASE = process.env.BENCH_BASE_URL ?? 'http://127.0.0.1:8434';
+const DATABASE_URL = process.env.DATABASE_URL;
+const ROWS = Number(process.env.BENCH_SYNC_ROWS ?? 50_000);
+const RUNS = Number(process.env.BENCH_SYNC_RUNS ?? 3);
+const SKATERS = 12;
+const BATCH = SYNC_PUSH_MAX_OPS;
+const PAGE = SYNC_PULL_MAX_LIMIT;
+const WARMUP_ROWS = 2 * BATCH;
+
+/** The fields a device sends to create an observation (sync/store.ts), one clock value each. */
+const OBSERVATION_FIELDS = ['sessionId', 'skaterId', 'cueId', 'mark', 'note', 'noteShared', 'createdAt', 'createdBy'] as const;
+const NOTES = ['', '', 'Knee over toe on the exit of the curve', '', 'Arms quiet on the straight', ''];
+
+interface Team {
+  label: string;
+  token: string;
+  teamId: string;
+  userId: string;
+  clientId: string;
+  skaterIds: string[];
+  cueIds: string[];
+  sessionId: string;
+  clock: HybridClock;
+}
+
+interface Observation {
+  id: string;
+  fields: {
+    sessionId: string;
+    skaterId: string;
+    cueId: string;
+    mark: 'good' | 'needs_work';
+    note: string;
+    noteShared: boolean;
+    createdAt: string;
+    createdBy: string;
+  };
+  hlc: string;
+}
+
+interface Measured {
+  rows: number;
+  seconds: number;
+}
+
+const rate = (m: Measured) => m.rows / m.seconds;
+const median = (values: Measured[]) => [...values].sort((a, b) => rate(a) - rate(b))[Math.floor(values.length / 2)];
+const int = (n: number) => Math.round(n).toLocaleString('en-US');
+
+let signUps = 0;
+
+async function api<T>(path: string, init: { body?: unknown; token?: string; method?: string } = {}): Promise<T> {
+  const response = await fetch(`${BASE}${path}`, {
+    method: init.method ?? (init.body === undefined ? 'GET' : 'POST'),
+    headers: {
+      'content-type': 'application/json',
+      origin: BASE,
+      ...(init.token ? { authorization: `Bearer ${init.token}` } : {}),
+    },
+    body: init.body === undefined ? undefined : JSON.stringify(init.body),
+  });
+  if (!response.ok) throw new Error(`${init.method ?? ''} ${path}: ${response.status} ${await response.text()}`);
+  return response.json() as Promise<T>;
+}
+
+async function push(team: Team, ops: Op[]): Promise<void> {
+  const reply = await api<PushReply>('/api/sync/push', { body: { clientId: team.clientId, teamId: team.teamId, ops }, token: team.token });
+  const notApplied = reply.results.filter((r) => r.status !== 'applied');
+  if (reply.results.length !== ops.length || notApplied.length > 0) {
+    throw new Error(`push to ${team.label}: ${notApplied.length} of ${ops.length} ops not applied, e.g. ${JSON.stringify(notApplied[0])}`);
+  }
+}
+
+/** A head coach with a team of 12 skaters, the team's cues, and one session (created by push). */
+async function newTeam(label: string): Promise<Team> {
+  signUps += 1;
+  const signedUp = await api<{ accessToken: string; user: { id: string }; memberships: { teamId: string }[] }>('/api/auth/sign-up', {
+    body: {
+      email: `bench.sync.${Date.now()}.${signUps}@bench.example`,
+      password: 'bench-password-123',
+      displayName: `Bench Coach ${signUps}`,
+      teamName: `Sync Bench ${label}`,
+    },
+  });
+  const token = signedUp.accessToken;
+  const teamId = signedUp.memberships[0].teamId;
+  const skaterIds: string[] = [];
+  for (let i = 0; i < SKATERS; i += 1) {
+    const skater = await api<{ id: string }>(`/api/teams/${teamId}/skaters`, { body: { displayName: `Skater ${i + 1}` }, token });
+    skaterIds.push(skater.id);
+  }
+  const cueIds = (await api<{ id: string }[]>(`/api/teams/${teamId}/cues`, { token })).map((c) => c.id);
+  const clientId = uuidv7();
+  const team: Team = {
+    label, token, teamId, userId: signedUp.user.id, clientId, skaterIds, cueIds,
+    sessionId: uuidv7(), clock: new HybridClock(clientId),
+  };
+  const hlc = team.clock.now();
+  const createdAt = new Date().toISOString();
+  await push(team, [
+    {
+      opId: uuidv7(), table: 'sessions', recordId: team.sessionId, kind: 'upsert',
+      fields: { day: createdAt.slice(0, 10), rink: 'Bench Oval', title: 'Sync bench', createdAt, createdBy: team.userId },
+      hlc: { day: hlc, rink: hlc, title: hlc, createdAt: hlc, createdBy: hlc },
+    },
+  ]);
+  return team;
+}
+
+/** `count` observations as a coach taps them at the boards, round the skaters and cues. */
+function observations(team: Team, count: number): Observation[] {
+  const start = Date.now() - count * 1000;
+  return Array.from({ length: count }, (_, i) => ({
+    id: uuidv7(),
+    fields: {
+      sessionId: team.sessionId,
+      skaterId: team.skaterIds[i % team.skaterIds.length],
+      cueId: team.cueIds[i % team.cueIds.length],
+      mark: i % 3 === 0 ? 'good' : 'needs_work',
+      note: NOTES[i % NOTES.length],
+      noteShared: i % 12 === 2,
+      createdAt: new Date(start + i * 1000).toISOString(),
+      createdBy: team.userId,
+    },
+    hlc: team.clock.now(),
+  }));
+}
+
+const toOp = (o: Observation): Op => ({
+  opId: uuidv7(),
+  table: 'observations',
+  recordId: o.id,
+  kind: 'upsert',
+  fields: o.fields,
+  hlc: Object.fromEntries(OBSERVATION_FIELDS.map((f) => [f, o.hlc])),
+});
+
+const batches = <T>(items: T[], size: number) =>
+  Array.from({ length: Math.ceil(items.length / size) }, (_, i) => items.slice(i * size, (i + 1) * size));
+
+// ---- raw PostgreSQL ---------------------------------------------------------------------------
+
+const RAW_UPSERT = `
+  INSERT INTO observations (team_id, id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by,
+                            acknowledged_at, field_hlc, server_seq, deleted_at, deleted_hlc)
+  SELECT $1, * FROM unnest($2::uuid[], $3::uuid[], $4::uuid[], $5::uuid[], $6::text[], $7::text[], $8::bool[],
+                           $9::timestamptz[], $10::uuid[], $11::timestamptz[], $12::jsonb[], $13::bigint[],
+                           $14::timestamptz[], $15::text[])
+  ON CONFLICT (team_id, id) DO UPDATE SET
+    mark = excluded.mark, note = excluded.note, note_shared = excluded.note_shared,
+    acknowledged_at = excluded.acknowledged_at, field_hlc = excluded.field_hlc, server_seq = excluded.server_seq,
+    deleted_at = excluded.deleted_at, deleted_hlc = excluded.deleted_hlc`;
+
+async function rawUpsert(db: Client, team: Team, rows: Observation[]): Promise<Measured> {
+  let seq = 1_000_000;
+  const started = performance.now();
+  for (const batch of batches(rows, BATCH)) {
+    const nulls = batch.map(() => null);
+    await db.query(RAW_UPSERT, [
+      team.teamId,
+      batch.map((o) => o.id),
+      batch.map((o) => o.fields.sessionId),
+      batch.map((o) => o.fields.skaterId),
+      batch.map((o) => o.fields.cueId),
+      batch.map((o) => o.fields.mark),
+      batch.map((o) => o.fields.note),
+      batch.map((o) => o.fields.noteShared),
+      batch.map((o) => o.fields.createdAt),
+      batch.map((o) => o.fields.createdBy),
+      nulls,
+      batch.map((o) => JSON.stringify(Object.fromEntries(OBSERVATION_FIELDS.map((f) => [f, o.hlc])))),
+      batch.map(() => seq++),
+      nulls,
+      nulls,
+    ]);
+  }
+  return { rows: rows.length, seconds: (performance.now() - started) / 1000 };
+}
+
+const RAW_PAGE = `
+  SELECT id, server_seq, deleted_at, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by, acknowledged_at
+    FROM observations WHERE team_id = $1 AND server_seq > $2 ORDER BY server_seq LIMIT ${PAGE}`;
+
+async function rawRead(db: Client, team: Team, maxPages = Infinity): Promise<Measured> {
+  let cursor = 0;
+  let rows = 0;
+  const started = performance.now();
+  for (let page = 0; page < maxPages; page += 1) {
+    const result = await db.query<{ server_seq: string }>(RAW_PAGE, [team.teamId, cursor]);
+    rows += result.rows.length;
+    if (result.rows.length < PAGE) break;
+    cursor = Number(result.rows[result.rows.length - 1].server_seq);
+  }
+  return { rows, seconds: (performance.now() - started) / 1000 };
+}
+
+// ---- the endpoints ----------------------------------------------------------------------------
+
+async function pushAll(team: Team, ops: Op[]): Promise<Measured> {
+  const started = performance.now();
+  for (const batch of batches(ops, BATCH)) await push(team, batch);
+  return { rows: ops.length, seconds: (performance.now() - started) / 1000 };
+}
+
+async function pushConcurrently(clients: { team: Team; ops: Op[] }[]): Promise<Measured> {
+  const started = performance.now();
+  await Promise.all(clients.map(async ({ team, ops }) => {
+    for (const batch of batches(ops, BATCH)) await push(team, batch);
+  }));
+  return { rows: clients.reduce((n, c) => n + c.ops.length, 0), seconds: (performance.now() - started) / 1000 };
+}
+
+async function pullAll(team: Team, maxPages = Infinity): Promise<Measured> {
+  let cursor = 0;
+  let rows = 0;
+  const started = performance.now();
+  for (let page = 0; page < maxPages; page += 1) {
+    const reply = await api<PullReply>(`/api/sync/pull?teamId=${team.teamId}&cursor=${cursor}&limit=${PAGE}`, { token: team.token });
+    rows += reply.changes.length + reply.tombstones.length;
+    cursor = reply.nextCursor;
+    if (!reply.hasMore) break;
+  }
+  return { rows, seconds: (performance.now() - started) / 1000 };
+}
+
+// ---- the run ----------------------------------------------------------------------------------
+
+async function main() {
+  if (!DATABASE_URL) throw new Error('DATABASE_URL must point at the bench database (scripts/bench.sh sets it)');
+  const db = new Client({ connectionString: DATABASE_URL, application_name: 'boardside-bench-sync' });
+  await db.connect();
+  try {
+    const half = Math.floor(ROWS / 2);
+    console.log(`sync throughput: ${int(ROWS)} observations, pushes of ${BATCH} ops, pages of ${PAGE} rows, ${SKATERS} skaters per team, median of ${RUNS} runs`);
+
+    // Warm-up: each measurement once, small, on a team of its own.
+    const warm = await newTeam('warm-up');
+    const warmRows = observations(warm, WARMUP_ROWS * 2);
+    await rawUpsert(db, warm, warmRows.slice(0, WARMUP_ROWS));
+    await pushAll(warm, warmRows.slice(WARMUP_ROWS).map(toOp));
+    await rawRead(db, warm, 2);
+    await pullAll(warm, 2);
+
+    const results = { raw: [] as Measured[], push1: [] as Measured[], push2: [] as Measured[], read: [] as Measured[], pull: [] as Measured[] };
+    let readTeam: Team | undefined;
+    for (let run = 1; run <= RUNS; run += 1) {
+      // Teams and rows first, outside the timings: every write run gets fresh teams.
+      const [rawTeam, pushTeam, teamA, teamB] = [
+        await newTeam(`raw ${run}`), await newTeam(`push ${run}`), await newTeam(`push A ${run}`), await newTeam(`push B ${run}`),
+      ];
+      const rawRows = observations(rawTeam, ROWS);
+      const pushOps = observations(pushTeam, ROWS).map(toOp);
+      const opsA = observations(teamA, half).map(toOp);
+      const opsB = observations(teamB, ROWS - half).map(toOp);
+
+      results.raw.push(await rawUpsert(db, rawTeam, rawRows));
+      results.push1.push(await pushAll(pushTeam, pushOps));
+      results.push2.push(await pushConcurrently([{ team: teamA, ops: opsA }, { team: teamB, ops: opsB }]));
+      readTeam ??= pushTeam;
+      console.log(
+        `  run ${run}: raw upsert ${int(rate(results.raw.at(-1)!))} rows/s, push 1 client ${int(rate(results.push1.at(-1)!))} ops/s, ` +
+          `push 2 clients ${int(rate(results.push2.at(-1)!))} ops/s`,
+      );
+    }
+    // Reads over the first push team (its rows carry what push stored), after the writes settle.
+    await db.query('VACUUM ANALYZE observations');
+    for (let run = 1; run <= RUNS; run += 1) {
+      results.read.push(await rawRead(db, readTeam!));
+      results.pull.push(await pullAll(readTeam!));
+      console.log(`  read ${run}: raw paged read ${int(rate(results.read.at(-1)!))} rows/s, pull ${int(rate(results.pull.at(-1)!))} rows/s`);
+    }
+
+    const lines: [string, Measured[]][] = [
+      ['raw upsert (unnest, 500/stmt)', results.raw],
+      ['push, 1 client (500 ops/push)', results.push1],
+      ['push, 2 clients (2 teams)', results.push2],
+      ['raw paged read (1000/page)', results.read],
+      ['pull (limit 1000)', results.pull],
+    ];
+    console.log('');
+    console.log(`  ${'measurement'.padEnd(31)}${'rows'.padStart(9)}${'seconds'.padStart(10)}${'rows/s'.padStart(11)}   runs (rows/s)`);
+    for (const [label, runs] of lines) {
+      const m = median(runs);
+      console.log(
+        `  ${label.padEnd(31)}${int(m.rows).padStart(9)}${m.seconds.toFixed(3).padStart(10)}${int(rate(m)).padStart(11)}   ${runs.map((r) => int(rate(r))).join(' / ')}`,
+      );
+    }
+    const raw = rate(median(results.raw));
+    const read = rate(median(results.read));
+    const ratio = (label: string, value: number) => `  ${label.padEnd(44)}${value.toFixed(2)}  (target >= 0.25)`;
+    console.log(ratio('ratio push (1 client) / raw upsert:', rate(median(results.push1)) / raw));
+    console.log(ratio('ratio push (2 clients) / raw upsert:', rate(median(results.push2)) / raw));
+    console.log(ratio('ratio pull / raw paged read:', rate(median(results.pull)) / read));
+  } finally {
+    await db.end();
+  }
+}
+
+main().catch((error) => {
+  console.error(error);
+  process.exit(1);
+});
