@@ -9,6 +9,7 @@
  */
 import { chromium, type Page } from 'playwright-core';
 import { execSync } from 'node:child_process';
+import { writeFileSync } from 'node:fs';
 
 const BASE = process.env.BENCH_BASE_URL ?? 'http://127.0.0.1:8434';
 const ROWS = Number(process.env.BENCH_ROWS ?? 50_000);
@@ -38,7 +39,11 @@ async function api<T>(path: string, body?: unknown, token?: string): Promise<T> 
 async function fillDevice(page: Page, teamId: string, userId: string, skaterIds: string[], cueIds: string[]) {
   return page.evaluate(
     async ({ rows, teamId, userId, skaterIds, cueIds }) => {
-      const { driver } = (globalThis as any).__boardsideBench;
+      const { driver, store } = (globalThis as any).__boardsideBench;
+      // Each chunk goes through the store's own write queue (a private field, reached from the
+      // page on purpose): the app's sync may be writing at the same time, and expo-sqlite on the
+      // web cannot nest transactions.
+      const onQueue = (work: () => Promise<void>): Promise<void> => store.queue.run(work);
       const started = performance.now();
       const perSession = 200;
       const hex = (n: number, width: number) => n.toString(16).padStart(width, '0');
@@ -61,12 +66,14 @@ async function fillDevice(page: Page, teamId: string, userId: string, skaterIds:
             userId,
           );
         }
-        await driver.exec('BEGIN');
-        await driver.run(
-          `INSERT INTO observations (id, team_id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by, deleted, hlc, synced) VALUES ${values.join(',')}`,
-          params,
-        );
-        await driver.exec('COMMIT');
+        await onQueue(async () => {
+          await driver.exec('BEGIN');
+          await driver.run(
+            `INSERT INTO observations (id, team_id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by, deleted, hlc, synced) VALUES ${values.join(',')}`,
+            params,
+          );
+          await driver.exec('COMMIT');
+        });
       }
       return performance.now() - started;
     },
@@ -80,8 +87,18 @@ async function fillDevice(page: Page, teamId: string, userId: string, skaterIds:
  */
 async function tapPass(page: Page, cueIds: string[], gapMs: number) {
   await page.evaluate(() => {
-    (window as any).__taps = [];
+    const w = window as any;
+    w.__taps = [];
+    w.__clicks = [];
+    w.__longTasks = [];
     performance.clearMarks('boardside:committed');
+    // Main-thread tasks over 50 ms during the pass: what keeps the page from painting and the
+    // store's queue from moving (each statement's answer comes back as a main-thread task).
+    w.__longTaskObserver?.disconnect();
+    w.__longTaskObserver = new PerformanceObserver((list) => {
+      for (const entry of list.getEntries()) w.__longTasks.push(entry.duration);
+    });
+    w.__longTaskObserver.observe({ type: 'longtask' });
   });
   for (let i = 0; i < TAPS; i += 1) {
     await page.getByTestId(`cue-chip-${cueIds[i % cueIds.length]}`).click();
@@ -103,7 +120,10 @@ async function tapPass(page: Page, cueIds: string[], gapMs: number) {
       const p = painted.get(id);
       if (p !== undefined && p > 0) paint.push(p - tap);
     });
-    return { paint, commit, taps: taps.length, commits: commits.length };
+    const clicks: number[] = w.__clicks;
+    const input = clicks.slice(-taps.length).map((click, i) => click - taps[i]);
+    const longTasks: number[] = w.__longTasks;
+    return { paint, commit, input, taps: taps.length, commits: commits.length, longTaskMs: longTasks.reduce((a, b) => a + b, 0), longTasks: longTasks.length };
   });
 }
 
@@ -155,6 +175,8 @@ async function main() {
     w.__taps = [];
     w.__painted = new Map<string, number>();
     document.addEventListener('pointerdown', (event) => w.__taps.push(event.timeStamp), true);
+    // The press fires on the click: pointerdown -> click is the input pipeline, before any app code.
+    document.addEventListener('click', () => w.__clicks.push(performance.now()), true);
     new MutationObserver((mutations) => {
       for (const m of mutations) {
         for (const node of Array.from(m.addedNodes)) {
@@ -176,11 +198,23 @@ async function main() {
   // Two passes over the same board: a stress pass (taps 60 ms apart, faster than any coach) and a
   // realistic one (400 ms apart, a quick coach). The second starts with the first pass's notes in
   // the feed, as it would at the rink.
-  for (const pass of PASSES) {
+  const profilePath = process.env.BENCH_PROFILE;
+  for (const [index, pass] of PASSES.entries()) {
+    const cdp = profilePath && index === PASSES.length - 1 ? await page.context().newCDPSession(page) : null;
+    if (cdp) {
+      await cdp.send('Profiler.enable');
+      await cdp.send('Profiler.start');
+    }
     const result = await tapPass(page, cues.map((c) => c.id), pass.gapMs);
+    if (cdp && profilePath) {
+      const { profile } = await cdp.send('Profiler.stop');
+      writeFileSync(profilePath, JSON.stringify(profile));
+      console.log(`  CPU profile of this pass: ${profilePath}`);
+    }
     console.log(`${pass.label} (${pass.gapMs} ms between taps): ${result.taps} taps, ${result.commits} commits, ${result.paint.length} paints seen`);
     console.log(`  tap -> note shown in the feed (next frame): ${fmt(result.paint)}   (goal p95 <= 16 ms)`);
     console.log(`  tap -> note + outbox entry committed:       ${fmt(result.commit)}   (goal p95 <= 25 ms)`);
+    console.log(`  (pointerdown -> click reaches the page: ${fmt(result.input)}; long tasks: ${result.longTasks}, ${Math.round(result.longTaskMs)} ms in all)`);
   }
   await browser.close();
 }

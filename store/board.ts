@@ -3,9 +3,14 @@
  * its notes, changes waiting) and its writes. Reads run with networkMode 'always' because they
  * never touch the network. Recording paints optimistically in the same frame as the tap, then
  * commits row + outbox entry; a failed write rolls the optimistic note back and says why.
+ *
+ * A tap must stay cheap (the coach taps every few hundred ms, and the store's commits queue behind
+ * whatever keeps the main thread busy): recording re-renders nothing but the observers of the
+ * session's notes, and the "waiting to be sent" count is bumped in the cache rather than re-read
+ * from the device after every write (a re-read follows once the writes go quiet).
  */
 import { queryOptions, useMutation, useQuery, useQueryClient, type QueryClient } from '@tanstack/react-query';
-import { useEffect } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { v7 as uuidv7 } from 'uuid';
 import type { Phase } from '../shared/cues';
 import { cueSchema, squadSchema, type BoardSessionPatch, type Mark, type Observation, type ObservationPatch } from '../shared/schemas';
@@ -96,8 +101,35 @@ export function useLoadTeamFromServer(teamId: string) {
   return query;
 }
 
-function refreshCounts(client: QueryClient) {
-  void client.invalidateQueries({ queryKey: boardKeys.outbox() });
+/** How long the device must be free of writes before the outbox counts are re-read. */
+const OUTBOX_REFRESH_MS = 1000;
+const outboxTimers = new WeakMap<QueryClient, ReturnType<typeof setTimeout>>();
+
+/**
+ * Re-reads the outbox counts (coalesced). Taps pass OUTBOX_REFRESH_MS, so the re-read waits until
+ * the taps go quiet: one after every tap would queue two more statements on the device per tap,
+ * ahead of the next tap's commit.
+ */
+function refreshCounts(client: QueryClient, delayMs = 0) {
+  clearTimeout(outboxTimers.get(client));
+  outboxTimers.set(
+    client,
+    setTimeout(() => {
+      outboxTimers.delete(client);
+      void client.invalidateQueries({ queryKey: boardKeys.outbox() });
+    }, delayMs),
+  );
+}
+
+type OutboxCounts = { pending: number; byTable: { observations: number; sessions: number; cues: number } };
+
+/** The status line counts a tap's notes at once (the re-read above corrects any difference). */
+function bumpPendingNotes(client: QueryClient, notes: number) {
+  client.setQueryData<OutboxCounts>(boardKeys.outbox(), (old) =>
+    old
+      ? { pending: old.pending + notes, byTable: { ...old.byTable, observations: old.byTable.observations + notes } }
+      : old,
+  );
 }
 
 export interface RecordArgs {
@@ -109,21 +141,34 @@ export interface RecordArgs {
   note?: string;
 }
 
-/** One tap: an observation per selected skater. Resolves with the ids (for undo). */
+export type RecordVariables = RecordArgs & { ids: string[] };
+
+/**
+ * One tap: an observation per selected skater. `mutate` paints the notes into the session's cached
+ * list at once (no await before the paint), then commits through the device store's serial queue.
+ *
+ * Not a useMutation: its observer re-renders the hook's host on every state change (pending,
+ * success), i.e. the whole board twice per tap. Here the host re-renders only when a write fails
+ * (`isError`, `error` and `variables` then describe the failed tap), and `mutate` is stable.
+ */
 export function useRecordObservations() {
   const client = useQueryClient();
   const userId = useSession((s) => s.user?.id ?? '');
-  return useMutation({
-    networkMode: 'always',
-    mutationFn: async (args: RecordArgs & { ids: string[] }) => {
-      const created = await (await deviceStore()).recordObservations({ ...args, userId });
-      // A User Timing mark: the benchmark measures tap-to-commit from it (cheap, standard API).
-      performance.mark('boardside:committed', { detail: args.ids });
-      return created;
-    },
-    onMutate: async (args) => {
+  const userRef = useRef(userId);
+  userRef.current = userId;
+  const mounted = useRef(true);
+  useEffect(() => {
+    mounted.current = true;
+    return () => {
+      mounted.current = false;
+    };
+  }, []);
+  const [failure, setFailure] = useState<{ error: Error; variables: RecordVariables } | null>(null);
+
+  const mutate = useCallback(
+    (args: RecordVariables) => {
+      const createdBy = userRef.current;
       const key = boardKeys.observations(args.sessionId);
-      const previous = client.getQueryData<Observation[]>(key);
       const createdAt = new Date().toISOString();
       const optimistic: Observation[] = args.skaterIds.map((skaterId, index) => ({
         id: args.ids[index],
@@ -135,16 +180,35 @@ export function useRecordObservations() {
         note: args.note?.trim() ?? '',
         noteShared: false,
         createdAt,
-        createdBy: userId,
+        createdBy,
       }));
+      // Newest first, the rest of the list (and every object in it) untouched, so memoised feed
+      // items and tile counts see only what changed.
       client.setQueryData<Observation[]>(key, (old) => [...optimistic.reverse(), ...(old ?? [])]);
-      return { previous };
+      bumpPendingNotes(client, args.ids.length);
+
+      void (async () => {
+        try {
+          await (await deviceStore()).recordObservations({ ...args, userId: createdBy });
+          // A User Timing mark: the benchmark measures tap-to-commit from it (cheap, standard API).
+          performance.mark('boardside:committed', { detail: args.ids });
+        } catch (error) {
+          // Take out only this tap's notes: later taps may already be painted above them.
+          const failed = new Set(args.ids);
+          client.setQueryData<Observation[]>(key, (old) => old?.filter((o) => !failed.has(o.id)));
+          if (mounted.current) setFailure({ error: error instanceof Error ? error : new Error(String(error)), variables: args });
+        } finally {
+          refreshCounts(client, OUTBOX_REFRESH_MS);
+        }
+      })();
     },
-    onError: (_error, args, context) => {
-      client.setQueryData(boardKeys.observations(args.sessionId), context?.previous);
-    },
-    onSettled: () => refreshCounts(client),
-  });
+    [client],
+  );
+
+  return useMemo(
+    () => ({ mutate, isError: failure !== null, error: failure?.error ?? null, variables: failure?.variables }),
+    [mutate, failure],
+  );
 }
 
 /** Makes the ids for a tap up front, so the note can be painted and undone before it commits. */

@@ -6,18 +6,25 @@
  * Phone (390 px): one column, tiles then chips then feed, the undo bar docked at the bottom where
  * the thumb is. Wide (>= 1024 px): three panes side by side (tiles | chips | session and feed),
  * each scrolling on its own, the undo bar across the bottom.
+ *
+ * A tap must cost one frame. So this screen does not subscribe to the notes, the pick, the
+ * recorder's undo stack or the waiting count: the parts that show them (feed, tiles, undo bar,
+ * status line, pick line) each subscribe on their own and are memoised with stable props, so a
+ * tap on a chip re-renders the new feed item, the tile whose count moved, the undo bar and the
+ * status line, and nothing else.
  */
 import { useQuery } from '@tanstack/react-query';
-import { useCallback, useMemo, useState, type ReactNode } from 'react';
+import { memo, useCallback, useMemo, useRef, useState, type ReactNode } from 'react';
 import { ScrollView, StyleSheet, View, useWindowDimensions } from 'react-native';
 
-import type { Cue, Observation, Skater } from '../../shared/schemas';
+import { useStore } from 'zustand';
+
+import type { Cue, Group, Observation, ObservationPatch, Skater } from '../../shared/schemas';
 import {
   cuesOnDevice,
   observationsOnDevice,
   squadOnDevice,
   useLoadTeamFromServer,
-  usePendingSummary,
   useRemoveObservations,
   useTodaySession,
   useUpdateObservation,
@@ -34,13 +41,15 @@ import { joinNames } from './format';
 import { NoteFeed } from './note-feed';
 import { SessionPanel } from './session-panel';
 import { SkaterTiles } from './skater-tiles';
-import { StatusLine } from './status-line';
+import { BoardStatusLine } from './status-line';
 import { UndoBar } from './undo-bar';
-import { useRecorder, type Recording } from './use-recorder';
+import { useLatestCallback } from './use-latest';
+import { latestOf, useRecorder, type Recording, type RecorderStore } from './use-recorder';
 
 const THREE_PANES_FROM = 1280;
 const EMPTY_OBS: Observation[] = [];
 const EMPTY_CUES: Cue[] = [];
+const EMPTY_GROUPS: Group[] = [];
 
 export function BoardScreen() {
   const wide = useBreakpoint() === 'wide';
@@ -53,35 +62,22 @@ export function BoardScreen() {
   const serverOnline = useConnectivity((s) => s.online);
   const signedInOffline = useSession((s) => s.offline);
   const offline = !serverOnline || signedInOffline;
-  const pending = usePendingSummary();
 
   const fromServer = useLoadTeamFromServer(teamId);
   const squad = useQuery({ ...squadOnDevice(teamId), enabled: !!teamId });
   const cueQuery = useQuery({ ...cuesOnDevice(teamId), enabled: !!teamId });
   const session = useTodaySession(teamId);
   const sessionId = session.data?.id;
-  const feed = useQuery({ ...observationsOnDevice(sessionId ?? ''), enabled: !!sessionId });
 
-  const selectedRaw = useBoardUi((s) => s.selected);
-  const group = useBoardUi((s) => s.group);
-  const toggleSkater = useBoardUi((s) => s.toggleSkater);
   const clearSelection = useBoardUi((s) => s.clearSelection);
-  const setGroup = useBoardUi((s) => s.setGroup);
   const [libraryOpen, setLibraryOpen] = useState(false);
 
   const skaters = useMemo(() => squad.data?.skaters ?? [], [squad.data]);
-  const groups = squad.data?.groups ?? [];
+  const groups = squad.data?.groups ?? EMPTY_GROUPS;
   const cues = cueQuery.data ?? EMPTY_CUES;
-  const observations = feed.data ?? EMPTY_OBS;
   const skaterById = useMemo(() => new Map<string, Skater>(skaters.map((s) => [s.id, s])), [skaters]);
   const cueById = useMemo(() => new Map<string, Cue>(cues.map((c) => [c.id, c])), [cues]);
-  // A pick can outlive a squad change (or a team switch): only skaters still here count.
-  const selected = useMemo(() => selectedRaw.filter((id) => skaterById.has(id)), [selectedRaw, skaterById]);
-  const counts = useMemo(() => {
-    const out: Record<string, number> = {};
-    for (const o of observations) out[o.skaterId] = (out[o.skaterId] ?? 0) + 1;
-    return out;
-  }, [observations]);
+  const liveCueCount = useMemo(() => cues.filter((c) => !c.archived).length, [cues]);
 
   const namesOf = useCallback(
     (ids: readonly string[]) => joinNames(ids.map((id) => skaterById.get(id)?.displayName ?? 'a skater')),
@@ -92,11 +88,36 @@ export function BoardScreen() {
     [cueById, namesOf],
   );
   const recorder = useRecorder(teamId, sessionId, describe);
-  const { setHold } = recorder;
+  const { tap, say } = recorder;
 
   const update = useUpdateObservation();
   const remove = useRemoveObservations();
   const updateSession = useUpdateSession(teamId);
+
+  // Read at the tap, not subscribed to: picking a skater does not re-render the board. A pick can
+  // outlive a squad change (or a team switch): only skaters still here count.
+  const skaterByIdRef = useRef(skaterById);
+  skaterByIdRef.current = skaterById;
+  const onCueTap = useCallback(
+    (cueId: string, mark: Observation['mark']) =>
+      tap(cueId, mark, useBoardUi.getState().selected.filter((id) => skaterByIdRef.current.has(id))),
+    [tap],
+  );
+  const saveObservation = useLatestCallback((id: string, patch: ObservationPatch) => {
+    if (sessionId) update.mutate({ sessionId, id, patch });
+  });
+  const deleteObservation = useLatestCallback((id: string) => {
+    if (!sessionId) return;
+    remove.mutate({ sessionId, ids: [id] });
+    say({ kind: 'undone', text: 'Note deleted.' });
+  });
+  const saveLatestNote = useLatestCallback((latest: Recording, note: string) => {
+    if (!sessionId) return;
+    for (const id of latest.ids) update.mutate({ sessionId, id, patch: { note } });
+    say({ kind: 'saved', text: note ? `Note saved for ${namesOf(latest.skaterIds)}.` : 'Note removed.' });
+  });
+  const openLibrary = useCallback(() => setLibraryOpen(true), []);
+  const closeLibrary = useCallback(() => setLibraryOpen(false), []);
 
   // ---- states before the board can work -----------------------------------------------------
   if (!teamId) return <Loading label="Finding your team…" testID="coach-home" />;
@@ -117,35 +138,6 @@ export function BoardScreen() {
   }
   const today = session.data!;
 
-  const latest = recorder.latest;
-  const latestObs = latest ? observations.find((o) => o.id === latest.ids[0]) : undefined;
-  const undoBar = (
-    <UndoBar
-      latest={
-        latest
-          ? {
-              key: latest.ids[0],
-              cueLabel: cueById.get(latest.cueId)?.label ?? 'Cue',
-              names: namesOf(latest.skaterIds),
-              mark: latest.mark,
-              repeat: latest.repeat,
-              count: latest.ids.length,
-            }
-          : null
-      }
-      notice={recorder.notice}
-      currentNote={latestObs?.note ?? ''}
-      onUndo={recorder.undo}
-      onEditing={setHold}
-      wide={wide}
-      onSaveNote={(note) => {
-        if (!latest) return;
-        for (const id of latest.ids) update.mutate({ sessionId: today.id, id, patch: { note } });
-        recorder.say({ kind: 'saved', text: note ? `Note saved for ${namesOf(latest.skaterIds)}.` : 'Note removed.' });
-      }}
-    />
-  );
-
   // ---- the three parts ----------------------------------------------------------------------
   const fetching = fromServer.isFetching && !offline;
   const tiles =
@@ -160,21 +152,11 @@ export function BoardScreen() {
         <TextLink href="/squad" label="Go to Squad" testID="board-go-squad" />
       </View>
     ) : (
-      <SkaterTiles
-        skaters={skaters}
-        groups={groups}
-        selected={selected}
-        counts={counts}
-        group={group}
-        onToggle={toggleSkater}
-        onClear={clearSelection}
-        onGroup={setGroup}
-      />
+      <BoardTiles skaters={skaters} groups={groups} skaterById={skaterById} sessionId={today.id} />
     );
 
-  const liveCues = cues.filter((c) => !c.archived);
   const libraryButton = isHead ? (
-    <Button label="Edit cue library" variant="quiet" onPress={() => setLibraryOpen(true)} testID="cue-library-open" />
+    <Button label="Edit cue library" variant="quiet" onPress={openLibrary} testID="cue-library-open" />
   ) : null;
   const chips = (
     <View style={styles.section}>
@@ -184,11 +166,8 @@ export function BoardScreen() {
         </Heading>
         {libraryButton}
       </View>
-      <Text variant="caption" tone="muted">
-        Tap the cue for “needs work”, the end of the chip for “good”.
-        {selected.length > 1 ? ` Goes to all ${selected.length} picked skaters.` : ''}
-      </Text>
-      {liveCues.length === 0 ? (
+      <CuesHint skaterById={skaterById} />
+      {liveCueCount === 0 ? (
         <View style={styles.empty} testID="board-no-cues">
           <Text weight="bold">No cues yet</Text>
           <Text tone="muted">
@@ -198,7 +177,7 @@ export function BoardScreen() {
           </Text>
         </View>
       ) : (
-        <CuePad cues={cues} focusIds={today.focusCueIds} onTap={(cueId, mark) => recorder.tap(cueId, mark, selected)} />
+        <CuePad cues={cues} focusIds={today.focusCueIds} onTap={onCueTap} />
       )}
     </View>
   );
@@ -215,28 +194,33 @@ export function BoardScreen() {
   );
 
   const feedPart = (
-    <View style={styles.section}>
-      <Heading level={2}>{`Today’s notes (${observations.length})`}</Heading>
-      {update.error ? (
-        <Banner kind="error" testID="feed-error">
-          {`Change not saved: ${update.error.message}`}
-        </Banner>
-      ) : null}
-      <NoteFeed
-        observations={observations}
-        skaters={skaterById}
-        cues={cueById}
-        onSave={(id, patch) => update.mutate({ sessionId: today.id, id, patch })}
-        onDelete={(id) => {
-          remove.mutate({ sessionId: today.id, ids: [id] });
-          recorder.say({ kind: 'undone', text: 'Note deleted.' });
-        }}
-      />
-    </View>
+    <FeedPart
+      sessionId={today.id}
+      skaterById={skaterById}
+      cueById={cueById}
+      error={update.error ? update.error.message : null}
+      onSave={saveObservation}
+      onDelete={deleteObservation}
+    />
   );
 
-  const status = <StatusLine day={today.day} offline={offline} pending={pending} title={today.title} rink={today.rink} />;
-  const library = <CueLibrary teamId={teamId} cues={cues} onClose={() => setLibraryOpen(false)} />;
+  const status = <BoardStatusLine day={today.day} offline={offline} title={today.title} rink={today.rink} />;
+  const library = <CueLibrary teamId={teamId} cues={cues} onClose={closeLibrary} />;
+  const bottom = (
+    <BottomBar
+      recorder={recorder.store}
+      sessionId={today.id}
+      cueById={cueById}
+      skaterById={skaterById}
+      namesOf={namesOf}
+      wide={wide}
+      showPick={!wide && !libraryOpen}
+      onUndo={recorder.undo}
+      onEditing={recorder.setHold}
+      onSaveNote={saveLatestNote}
+      onClearPick={clearSelection}
+    />
+  );
 
   if (wide) {
     return (
@@ -265,7 +249,7 @@ export function BoardScreen() {
             </Pane>
           ) : null}
         </View>
-        <View style={styles.wideBar}>{undoBar}</View>
+        <View style={styles.wideBar}>{bottom}</View>
       </View>
     );
   }
@@ -286,20 +270,162 @@ export function BoardScreen() {
           </>
         )}
       </ScrollView>
-      {/* Scrolled down among the chips, the coach still sees who the next tap goes to. */}
-      {!latest && !recorder.notice && selected.length > 0 && !libraryOpen ? (
-        <View style={styles.pickBar} testID="pick-bar">
-          <Text weight="bold" numberOfLines={2} style={styles.grow}>
-            {`For: ${namesOf(selected)}`}
-          </Text>
-          <Button label="Clear" variant="secondary" onPress={clearSelection} testID="pick-bar-clear" accessibilityLabel="Clear the picked skaters" />
-        </View>
-      ) : (
-        undoBar
-      )}
+      {bottom}
     </View>
   );
 }
+
+/** The pick (only skaters still in the squad), in the order the skaters were picked. */
+function usePicked(skaterById: ReadonlyMap<string, Skater>): string[] {
+  const raw = useBoardUi((s) => s.selected);
+  return useMemo(() => raw.filter((id) => skaterById.has(id)), [raw, skaterById]);
+}
+
+/** The tiles with the pick and the group filter: re-rendered by a tile tap, not by a chip tap. */
+const BoardTiles = memo(function BoardTiles({
+  skaters,
+  groups,
+  skaterById,
+  sessionId,
+}: {
+  skaters: Skater[];
+  groups: Group[];
+  skaterById: ReadonlyMap<string, Skater>;
+  sessionId: string;
+}) {
+  const selected = usePicked(skaterById);
+  const group = useBoardUi((s) => s.group);
+  const toggleSkater = useBoardUi((s) => s.toggleSkater);
+  const clearSelection = useBoardUi((s) => s.clearSelection);
+  const setGroup = useBoardUi((s) => s.setGroup);
+  return (
+    <SkaterTiles
+      skaters={skaters}
+      groups={groups}
+      selected={selected}
+      sessionId={sessionId}
+      group={group}
+      onToggle={toggleSkater}
+      onClear={clearSelection}
+      onGroup={setGroup}
+    />
+  );
+});
+
+/** The line under "Cues"; it names how many a group cue goes to. */
+const CuesHint = memo(function CuesHint({ skaterById }: { skaterById: ReadonlyMap<string, Skater> }) {
+  const picked = useBoardUi((s) => s.selected.filter((id) => skaterById.has(id)).length);
+  return (
+    <Text variant="caption" tone="muted">
+      Tap the cue for “needs work”, the end of the chip for “good”.
+      {picked > 1 ? ` Goes to all ${picked} picked skaters.` : ''}
+    </Text>
+  );
+});
+
+/** Today's notes with their heading: the only part of the board that reads the whole list. */
+const FeedPart = memo(function FeedPart({
+  sessionId,
+  skaterById,
+  cueById,
+  error,
+  onSave,
+  onDelete,
+}: {
+  sessionId: string;
+  skaterById: Map<string, Skater>;
+  cueById: Map<string, Cue>;
+  error: string | null;
+  onSave: (id: string, patch: ObservationPatch) => void;
+  onDelete: (id: string) => void;
+}) {
+  const observations = useQuery({ ...observationsOnDevice(sessionId), enabled: !!sessionId }).data ?? EMPTY_OBS;
+  return (
+    <View style={styles.section}>
+      <Heading level={2}>{`Today’s notes (${observations.length})`}</Heading>
+      {error ? (
+        <Banner kind="error" testID="feed-error">
+          {`Change not saved: ${error}`}
+        </Banner>
+      ) : null}
+      <NoteFeed observations={observations} skaters={skaterById} cues={cueById} onSave={onSave} onDelete={onDelete} />
+    </View>
+  );
+});
+
+/**
+ * The bar under the board: the undo bar (or the board's notice), or on a phone with skaters picked
+ * and nothing to confirm, the pick bar. Subscribes to the recorder, so a tap re-renders this bar.
+ */
+const BottomBar = memo(function BottomBar({
+  recorder,
+  sessionId,
+  cueById,
+  skaterById,
+  namesOf,
+  wide,
+  showPick,
+  onUndo,
+  onEditing,
+  onSaveNote,
+  onClearPick,
+}: {
+  recorder: RecorderStore;
+  sessionId: string;
+  cueById: Map<string, Cue>;
+  skaterById: ReadonlyMap<string, Skater>;
+  namesOf: (ids: readonly string[]) => string;
+  wide: boolean;
+  /** Phone, board showing (not the cue library): the pick bar may take the undo bar's place. */
+  showPick: boolean;
+  onUndo: () => void;
+  onEditing: (editing: boolean) => void;
+  onSaveNote: (latest: Recording, note: string) => void;
+  onClearPick: () => void;
+}) {
+  const latest = useStore(recorder, latestOf);
+  const notice = useStore(recorder, (s) => s.notice);
+  const selected = usePicked(skaterById);
+  const latestId = latest?.ids[0];
+  const noteOf = useCallback((list: Observation[]) => (latestId ? (list.find((o) => o.id === latestId)?.note ?? '') : ''), [latestId]);
+  const currentNote = useQuery({ ...observationsOnDevice(sessionId), enabled: !!sessionId && !!latestId, select: noteOf }).data ?? '';
+
+  // Scrolled down among the chips, the coach still sees who the next tap goes to.
+  if (showPick && !latest && !notice && selected.length > 0) {
+    return (
+      <View style={styles.pickBar} testID="pick-bar">
+        <Text weight="bold" numberOfLines={2} style={styles.grow}>
+          {`For: ${namesOf(selected)}`}
+        </Text>
+        <Button label="Clear" variant="secondary" onPress={onClearPick} testID="pick-bar-clear" accessibilityLabel="Clear the picked skaters" />
+      </View>
+    );
+  }
+  return (
+    <UndoBar
+      latest={
+        latest
+          ? {
+              key: latest.ids[0],
+              cueLabel: cueById.get(latest.cueId)?.label ?? 'Cue',
+              names: namesOf(latest.skaterIds),
+              mark: latest.mark,
+              repeat: latest.repeat,
+              count: latest.ids.length,
+            }
+          : null
+      }
+      notice={notice}
+      currentNote={currentNote}
+      onUndo={onUndo}
+      onEditing={onEditing}
+      wide={wide}
+      onSaveNote={(note) => {
+        if (latest) onSaveNote(latest, note);
+      }}
+    />
+  );
+});
 
 function Pane({ children, style, testID }: { children: ReactNode; style: object; testID: string }) {
   return (

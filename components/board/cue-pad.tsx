@@ -2,7 +2,11 @@
  * Cue chips, grouped: today's focus cues first, then every phase in the library's order. Each
  * chip has two single-tap zones: the wide main zone notes "needs work", the zone at its end notes
  * "good". Both show the mark's drawn shape and its word, so neither rests on colour.
+ *
+ * The pad and its chips are memoised: with a stable `onTap`, a tap re-renders none of them (only
+ * the pressed zone's own pressed state).
  */
+import { memo, useMemo } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 
 import { phaseLabels, phases } from '../../shared/cues';
@@ -30,7 +34,7 @@ export function cueSections(cues: Cue[], focusIds: readonly string[]): Section[]
   return sections;
 }
 
-export function CueChip({ cue, onTap }: { cue: Cue; onTap: (cueId: string, mark: Mark) => void }) {
+export const CueChip = memo(function CueChip({ cue, onTap }: { cue: Cue; onTap: (cueId: string, mark: Mark) => void }) {
   return (
     <View style={styles.chip}>
       <Pressable
@@ -45,7 +49,7 @@ export function CueChip({ cue, onTap }: { cue: Cue; onTap: (cueId: string, mark:
           <Text weight="bold" numberOfLines={2}>
             {cue.label}
           </Text>
-          <Text variant="caption" style={{ color: marks.needsWork.ink }}>
+          <Text variant="caption" style={styles.needsWorkWord}>
             {marks.needsWork.word}
           </Text>
         </View>
@@ -58,16 +62,24 @@ export function CueChip({ cue, onTap }: { cue: Cue; onTap: (cueId: string, mark:
         style={({ pressed }) => [styles.good, pressed && styles.goodPressed]}
       >
         <MarkShape kind="good" size={22} />
-        <Text variant="caption" weight="bold" style={{ color: marks.good.ink }}>
+        <Text variant="caption" weight="bold" style={styles.goodWord}>
           {marks.good.word}
         </Text>
       </Pressable>
     </View>
   );
-}
+});
 
-export function CuePad({ cues, focusIds, onTap }: { cues: Cue[]; focusIds: readonly string[]; onTap: (cueId: string, mark: Mark) => void }) {
-  const sections = cueSections(cues, focusIds);
+export const CuePad = memo(function CuePad({
+  cues,
+  focusIds,
+  onTap,
+}: {
+  cues: Cue[];
+  focusIds: readonly string[];
+  onTap: (cueId: string, mark: Mark) => void;
+}) {
+  const sections = useMemo(() => cueSections(cues, focusIds), [cues, focusIds]);
   return (
     <View style={styles.pad} testID="cue-pad">
       {sections.map((section) => (
@@ -85,7 +97,7 @@ export function CuePad({ cues, focusIds, onTap }: { cues: Cue[]; focusIds: reado
       ))}
     </View>
   );
-}
+});
 
 const styles = StyleSheet.create({
   pad: { gap: spacing.md },
@@ -111,6 +123,8 @@ const styles = StyleSheet.create({
   },
   mainPressed: { backgroundColor: marks.needsWork.surface },
   mainWords: { flex: 1 },
+  needsWorkWord: { color: marks.needsWork.ink },
+  goodWord: { color: marks.good.ink },
   // The "good" zone: its own tinted block behind a divider, wide enough for a gloved thumb.
   good: {
     width: 84,

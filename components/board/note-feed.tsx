@@ -2,14 +2,21 @@
  * Today's notes, newest first. Tap a note to fix it (mark, note text, whether the skater may read
  * the note); Delete asks once more in place before it removes. Cue labels come from the whole
  * library, archived cues included, so old notes keep their words.
+ *
+ * Built for a tap every few hundred ms: the newest FEED_PAGE notes are shown ("Show more" adds the
+ * next ones), and each note is a memoised item whose props are its observation object (kept by the
+ * optimistic update) and plain strings, so a new note mounts one item and re-renders no other.
  */
-import { useState } from 'react';
+import { memo, useCallback, useRef, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 
 import type { Cue, Mark, Observation, ObservationPatch, Skater } from '../../shared/schemas';
 import { Button, MarkBadge, MarkShape, Text, ToggleRow, colors, marks, radius, spacing, tapTarget } from '../ui';
 import { formatTime, markKind } from './format';
 import { NoteField, noteTooLong } from './note-field';
+
+/** Notes shown at first, and added by each "Show more". */
+export const FEED_PAGE = 50;
 
 export type NoteFeedProps = {
   observations: Observation[];
@@ -22,6 +29,27 @@ export type NoteFeedProps = {
 export function NoteFeed({ observations, skaters, cues, onSave, onDelete }: NoteFeedProps) {
   const [openId, setOpenId] = useState<string | null>(null);
   const [confirmId, setConfirmId] = useState<string | null>(null);
+  const [limit, setLimit] = useState(FEED_PAGE);
+  // The items' callbacks keep their identity; they reach the latest handlers through this.
+  const handlers = useRef({ onSave, onDelete });
+  handlers.current = { onSave, onDelete };
+
+  const toggleOpen = useCallback((id: string) => {
+    setOpenId((current) => (current === id ? null : id));
+    setConfirmId(null);
+  }, []);
+  const askDelete = useCallback((id: string) => setConfirmId(id), []);
+  const keep = useCallback(() => setConfirmId(null), []);
+  const confirmDelete = useCallback((id: string) => {
+    setConfirmId(null);
+    setOpenId((current) => (current === id ? null : current));
+    handlers.current.onDelete(id);
+  }, []);
+  const save = useCallback((id: string, patch: ObservationPatch) => {
+    handlers.current.onSave(id, patch);
+    setOpenId(null);
+  }, []);
+  const cancelEdit = useCallback(() => setOpenId(null), []);
 
   if (observations.length === 0) {
     return (
@@ -31,95 +59,126 @@ export function NoteFeed({ observations, skaters, cues, onSave, onDelete }: Note
     );
   }
 
+  const shown = observations.length > limit ? observations.slice(0, limit) : observations;
+  const more = observations.length - shown.length;
   return (
     <View style={styles.list} testID="feed" accessibilityRole="list">
-      {observations.map((o) => {
-        const skater = skaters.get(o.skaterId)?.displayName ?? 'Skater no longer in the squad';
+      {shown.map((o) => {
         const cue = cues.get(o.cueId);
-        const label = cue ? `${cue.label}${cue.archived ? ' (archived)' : ''}` : 'Cue not on this device';
-        const open = openId === o.id;
-        const confirming = confirmId === o.id;
         return (
-          <View key={o.id} style={[styles.item, open && styles.itemOpen]} testID={`feed-item-${o.id}`}>
-            <View style={styles.itemRow}>
-              <Pressable
-                testID={`feed-open-${o.id}`}
-                accessibilityRole="button"
-                accessibilityLabel={`${skater}, ${label}, ${marks[markKind(o.mark)].word}, ${formatTime(o.createdAt)}. Edit`}
-                accessibilityState={{ expanded: open }}
-                onPress={() => {
-                  setOpenId(open ? null : o.id);
-                  setConfirmId(null);
-                }}
-                style={({ pressed }) => [styles.itemMain, pressed && styles.pressed]}
-              >
-                <View style={styles.itemHead}>
-                  <Text weight="bold" style={styles.grow} numberOfLines={1}>
-                    {skater}
-                  </Text>
-                  <Text numeric variant="bodyLarge" tone="muted">
-                    {formatTime(o.createdAt)}
-                  </Text>
-                </View>
-                <Text>{label}</Text>
-                <View style={styles.itemHead}>
-                  <MarkBadge kind={markKind(o.mark)} testID={`feed-mark-${o.id}`} />
-                  {o.note ? (
-                    <Text variant="caption" tone="muted">
-                      {o.noteShared ? 'Shared with skater' : 'Coaches only'}
-                    </Text>
-                  ) : null}
-                </View>
-                {o.note ? (
-                  <Text testID={`feed-note-${o.id}`} style={styles.note}>
-                    {o.note}
-                  </Text>
-                ) : null}
-              </Pressable>
-              {confirming ? null : (
-                <Button
-                  label="Delete"
-                  variant="quiet"
-                  onPress={() => setConfirmId(o.id)}
-                  testID={`feed-delete-${o.id}`}
-                  accessibilityLabel={`Delete: ${label} for ${skater}`}
-                />
-              )}
-            </View>
-            {confirming ? (
-              <View style={styles.confirm} testID={`feed-confirm-${o.id}`}>
-                <Text weight="bold" style={styles.confirmText}>
-                  Delete this note?
-                </Text>
-                <Button
-                  label="Yes, delete"
-                  onPress={() => {
-                    setConfirmId(null);
-                    if (openId === o.id) setOpenId(null);
-                    onDelete(o.id);
-                  }}
-                  testID={`feed-delete-confirm-${o.id}`}
-                />
-                <Button label="Keep" variant="secondary" onPress={() => setConfirmId(null)} testID={`feed-delete-cancel-${o.id}`} />
-              </View>
-            ) : null}
-            {open ? (
-              <EditPanel
-                key={o.id}
-                observation={o}
-                onCancel={() => setOpenId(null)}
-                onSave={(patch) => {
-                  onSave(o.id, patch);
-                  setOpenId(null);
-                }}
-              />
-            ) : null}
-          </View>
+          <FeedItem
+            key={o.id}
+            observation={o}
+            skater={skaters.get(o.skaterId)?.displayName ?? 'Skater no longer in the squad'}
+            label={cue ? `${cue.label}${cue.archived ? ' (archived)' : ''}` : 'Cue not on this device'}
+            open={openId === o.id}
+            confirming={confirmId === o.id}
+            onToggleOpen={toggleOpen}
+            onAskDelete={askDelete}
+            onKeep={keep}
+            onConfirmDelete={confirmDelete}
+            onSave={save}
+            onCancelEdit={cancelEdit}
+          />
         );
       })}
+      {more > 0 ? (
+        <Button
+          label={`Show ${Math.min(more, FEED_PAGE)} more (${more} older)`}
+          variant="secondary"
+          onPress={() => setLimit((n) => n + FEED_PAGE)}
+          testID="feed-more"
+        />
+      ) : null}
     </View>
   );
 }
+
+type FeedItemProps = {
+  observation: Observation;
+  skater: string;
+  label: string;
+  open: boolean;
+  confirming: boolean;
+  onToggleOpen: (id: string) => void;
+  onAskDelete: (id: string) => void;
+  onKeep: () => void;
+  onConfirmDelete: (id: string) => void;
+  onSave: (id: string, patch: ObservationPatch) => void;
+  onCancelEdit: () => void;
+};
+
+const FeedItem = memo(function FeedItem({
+  observation: o,
+  skater,
+  label,
+  open,
+  confirming,
+  onToggleOpen,
+  onAskDelete,
+  onKeep,
+  onConfirmDelete,
+  onSave,
+  onCancelEdit,
+}: FeedItemProps) {
+  const time = formatTime(o.createdAt);
+  return (
+    <View style={[styles.item, open && styles.itemOpen]} testID={`feed-item-${o.id}`}>
+      <View style={styles.itemRow}>
+        <Pressable
+          testID={`feed-open-${o.id}`}
+          accessibilityRole="button"
+          accessibilityLabel={`${skater}, ${label}, ${marks[markKind(o.mark)].word}, ${time}. Edit`}
+          accessibilityState={{ expanded: open }}
+          onPress={() => onToggleOpen(o.id)}
+          style={({ pressed }) => [styles.itemMain, pressed && styles.pressed]}
+        >
+          <View style={styles.itemHead}>
+            <Text weight="bold" style={styles.grow} numberOfLines={1}>
+              {skater}
+            </Text>
+            <Text numeric variant="bodyLarge" tone="muted">
+              {time}
+            </Text>
+          </View>
+          <Text>{label}</Text>
+          <View style={styles.itemHead}>
+            <MarkBadge kind={markKind(o.mark)} testID={`feed-mark-${o.id}`} />
+            {o.note ? (
+              <Text variant="caption" tone="muted">
+                {o.noteShared ? 'Shared with skater' : 'Coaches only'}
+              </Text>
+            ) : null}
+          </View>
+          {o.note ? (
+            <Text testID={`feed-note-${o.id}`} style={styles.note}>
+              {o.note}
+            </Text>
+          ) : null}
+        </Pressable>
+        {confirming ? null : (
+          <Button
+            label="Delete"
+            variant="quiet"
+            onPress={() => onAskDelete(o.id)}
+            testID={`feed-delete-${o.id}`}
+            accessibilityLabel={`Delete: ${label} for ${skater}`}
+          />
+        )}
+      </View>
+      {confirming ? (
+        <View style={styles.confirm} testID={`feed-confirm-${o.id}`}>
+          <Text weight="bold" style={styles.confirmText}>
+            Delete this note?
+          </Text>
+          <Button label="Yes, delete" onPress={() => onConfirmDelete(o.id)} testID={`feed-delete-confirm-${o.id}`} />
+          <Button label="Keep" variant="secondary" onPress={onKeep} testID={`feed-delete-cancel-${o.id}`} />
+        </View>
+      ) : null}
+      {open ? <EditPanel key={o.id} observation={o} onCancel={onCancelEdit} onSave={(patch) => onSave(o.id, patch)} /> : null}
+    </View>
+  );
+});
 
 function EditPanel({ observation, onSave, onCancel }: { observation: Observation; onSave: (patch: ObservationPatch) => void; onCancel: () => void }) {
   const [mark, setMark] = useState<Mark>(observation.mark);

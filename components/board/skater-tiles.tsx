@@ -2,10 +2,16 @@
  * Skater tiles: the biggest targets on the board. Tap toggles a skater in or out of the current
  * pick; several picked make a group cue. A row of group chips narrows the tiles; the pick line
  * names everyone picked (also those a filter hides) and clears them in one tap.
+ *
+ * Each tile is memoised and reads its own count of today's notes from the session's cached list,
+ * so a tap on a cue chip re-renders only the tiles whose count changed, not the whole grid.
  */
+import { useQuery } from '@tanstack/react-query';
+import { memo, useCallback, useMemo } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 
-import type { Group, Skater } from '../../shared/schemas';
+import type { Group, Observation, Skater } from '../../shared/schemas';
+import { observationsOnDevice } from '../../store/board';
 import type { GroupFilter } from '../../store/board-ui';
 import { Button, Text, colors, radius, spacing } from '../ui';
 import { joinNames, plural } from './format';
@@ -17,15 +23,48 @@ export type SkaterTilesProps = {
   skaters: Skater[];
   groups: Group[];
   selected: string[];
-  counts: Record<string, number>;
+  /** Today's session: each tile counts its skater's notes in it. */
+  sessionId: string;
   group: GroupFilter;
   onToggle: (id: string) => void;
   onClear: () => void;
   onGroup: (group: GroupFilter) => void;
 };
 
-export function SkaterTiles({ skaters, groups, selected, counts, group, onToggle, onClear, onGroup }: SkaterTilesProps) {
-  const groupName = new Map(groups.map((g) => [g.id, g.name]));
+type Counts = ReadonlyMap<string, number>;
+const countsCache = new WeakMap<readonly Observation[], Counts>();
+let lastCounted: { list: readonly Observation[]; counts: Counts } | null = null;
+
+/**
+ * Notes per skater in a session's list, computed once per version of the list (every tile asks).
+ * A tap puts new notes in front of the previous list (the same objects after them): then only
+ * those are added to its counts instead of counting the whole session again.
+ */
+export function countsFor(list: readonly Observation[]): Counts {
+  const cached = countsCache.get(list);
+  if (cached) return cached;
+  let counts: Map<string, number>;
+  const prev = lastCounted;
+  const added = prev ? list.length - prev.list.length : -1;
+  if (prev && added >= 0 && prev.list.every((o, i) => list[added + i] === o)) {
+    counts = new Map(prev.counts);
+    for (let i = 0; i < added; i += 1) counts.set(list[i].skaterId, (counts.get(list[i].skaterId) ?? 0) + 1);
+  } else {
+    counts = new Map();
+    for (const o of list) counts.set(o.skaterId, (counts.get(o.skaterId) ?? 0) + 1);
+  }
+  countsCache.set(list, counts);
+  lastCounted = { list, counts };
+  return counts;
+}
+
+function useNoteCount(sessionId: string, skaterId: string): number {
+  const select = useCallback((list: Observation[]) => countsFor(list).get(skaterId) ?? 0, [skaterId]);
+  return useQuery({ ...observationsOnDevice(sessionId), enabled: !!sessionId, select }).data ?? 0;
+}
+
+export function SkaterTiles({ skaters, groups, selected, sessionId, group, onToggle, onClear, onGroup }: SkaterTilesProps) {
+  const groupName = useMemo(() => new Map(groups.map((g) => [g.id, g.name])), [groups]);
   const ungrouped = skaters.some((s) => !s.groupId || !groupName.has(s.groupId));
   const shown = skaters.filter((s) =>
     group === 'all' ? true : group === 'none' ? !s.groupId || !groupName.has(s.groupId) : s.groupId === group,
@@ -73,44 +112,16 @@ export function SkaterTiles({ skaters, groups, selected, counts, group, onToggle
       </View>
 
       <Grid minItemWidth={150} minColumns={2} maxColumns={4} testID="skater-tiles">
-        {shown.map((skater) => {
-          const on = selected.includes(skater.id);
-          const count = counts[skater.id] ?? 0;
-          const groupLabel = skater.groupId ? (groupName.get(skater.groupId) ?? 'No group') : 'No group';
-          return (
-            <Pressable
-              key={skater.id}
-              testID={`skater-tile-${skater.id}`}
-              accessibilityRole="button"
-              accessibilityLabel={skater.displayName}
-              accessibilityHint={`${groupLabel}, ${plural(count, 'note', 'notes')} today`}
-              accessibilityState={{ selected: on }}
-              aria-pressed={on}
-              onPress={() => onToggle(skater.id)}
-              style={({ pressed }) => [styles.tile, on && styles.tileOn, pressed && styles.tilePressed]}
-            >
-              <Text variant="bodyLarge" weight="bold" tone={on ? 'inverse' : 'default'} numberOfLines={2}>
-                {skater.displayName}
-              </Text>
-              <Text variant="caption" tone={on ? 'inverse' : 'muted'} numberOfLines={1}>
-                {groupLabel}
-              </Text>
-              <View style={styles.tileFoot}>
-                <Text variant="caption" weight="bold" tone={on ? 'inverse' : 'default'} testID={`tile-count-${skater.id}`} style={styles.grow}>
-                  {plural(count, 'note', 'notes')} today
-                </Text>
-                {/* A tick mark, so "picked" shows by shape as well as by the dark fill. */}
-                <View style={[styles.tick, on && styles.tickOn]}>
-                  {on ? (
-                    <Text weight="bold" align="center" style={{ color: colors.primary }}>
-                      {'\u2713'}
-                    </Text>
-                  ) : null}
-                </View>
-              </View>
-            </Pressable>
-          );
-        })}
+        {shown.map((skater) => (
+          <SkaterTile
+            key={skater.id}
+            skater={skater}
+            on={selected.includes(skater.id)}
+            groupLabel={skater.groupId ? (groupName.get(skater.groupId) ?? 'No group') : 'No group'}
+            sessionId={sessionId}
+            onToggle={onToggle}
+          />
+        ))}
       </Grid>
       {shown.length === 0 ? (
         <Text tone="muted" testID="tiles-filter-empty">
@@ -120,6 +131,45 @@ export function SkaterTiles({ skaters, groups, selected, counts, group, onToggle
     </View>
   );
 }
+
+type SkaterTileProps = { skater: Skater; on: boolean; groupLabel: string; sessionId: string; onToggle: (id: string) => void };
+
+const SkaterTile = memo(function SkaterTile({ skater, on, groupLabel, sessionId, onToggle }: SkaterTileProps) {
+  const count = useNoteCount(sessionId, skater.id);
+  const counted = plural(count, 'note', 'notes');
+  return (
+    <Pressable
+      testID={`skater-tile-${skater.id}`}
+      accessibilityRole="button"
+      accessibilityLabel={skater.displayName}
+      accessibilityHint={`${groupLabel}, ${counted} today`}
+      accessibilityState={{ selected: on }}
+      aria-pressed={on}
+      onPress={() => onToggle(skater.id)}
+      style={({ pressed }) => [styles.tile, on && styles.tileOn, pressed && styles.tilePressed]}
+    >
+      <Text variant="bodyLarge" weight="bold" tone={on ? 'inverse' : 'default'} numberOfLines={2}>
+        {skater.displayName}
+      </Text>
+      <Text variant="caption" tone={on ? 'inverse' : 'muted'} numberOfLines={1}>
+        {groupLabel}
+      </Text>
+      <View style={styles.tileFoot}>
+        <Text variant="caption" weight="bold" tone={on ? 'inverse' : 'default'} testID={`tile-count-${skater.id}`} style={styles.grow}>
+          {counted} today
+        </Text>
+        {/* A tick mark, so "picked" shows by shape as well as by the dark fill. */}
+        <View style={[styles.tick, on && styles.tickOn]}>
+          {on ? (
+            <Text weight="bold" align="center" style={styles.tickMark}>
+              {'\u2713'}
+            </Text>
+          ) : null}
+        </View>
+      </View>
+    </Pressable>
+  );
+});
 
 const styles = StyleSheet.create({
   wrap: { gap: spacing.sm },
@@ -151,4 +201,5 @@ const styles = StyleSheet.create({
   grow: { flex: 1 },
   tick: { width: 26, height: 26, borderRadius: 13, borderWidth: 2, borderColor: colors.border, alignItems: 'center', justifyContent: 'center' },
   tickOn: { backgroundColor: colors.surface, borderColor: colors.surface },
+  tickMark: { color: colors.primary },
 });

@@ -3,8 +3,10 @@
  * (or the coach was signed in from this device's memory), and how many changes wait on this
  * device to be sent. Read at a glance; nothing here needs a tap.
  */
+import { memo, useMemo } from 'react';
 import { StyleSheet, View } from 'react-native';
 
+import { usePendingSummary } from '../../store/board';
 import { Text, colors, radius, spacing } from '../ui';
 import { formatDay } from './format';
 
@@ -19,10 +21,12 @@ export type StatusLineProps = {
 
 export function StatusLine({ day, offline, pending, title, rink }: StatusLineProps) {
   const place = [title, rink].filter(Boolean).join(' · ');
+  // Intl date formatting is slow, and this line re-renders after every tap (the waiting count).
+  const dayLabel = useMemo(() => formatDay(day), [day]);
   return (
     <View style={styles.line} testID="status-line" accessibilityRole="summary">
       <Text weight="bold" variant="bodyLarge" testID="status-day">
-        {formatDay(day)}
+        {dayLabel}
         {place ? <Text tone="muted">{`  ${place}`}</Text> : null}
       </Text>
       <View style={styles.right}>
@@ -41,6 +45,15 @@ export function StatusLine({ day, offline, pending, title, rink }: StatusLinePro
     </View>
   );
 }
+
+/**
+ * The status line with the board's own count of waiting changes: it alone re-renders when that
+ * count moves (after every tap), not the board around it.
+ */
+export const BoardStatusLine = memo(function BoardStatusLine(props: Omit<StatusLineProps, 'pending'>) {
+  const pending = usePendingSummary();
+  return <StatusLine {...props} pending={pending} />;
+});
 
 const styles = StyleSheet.create({
   line: {

@@ -2,13 +2,15 @@
  * MarkBadge: shows an observation mark ("needs work" / "good") as shape + word + colour pair,
  * never colour alone. The shape is drawn (SVG) so it looks the same on every platform and font.
  */
+import { memo } from 'react';
 import { StyleSheet, View } from 'react-native';
 import Svg, { Circle, Path, Polygon } from 'react-native-svg';
 
 import { Text } from './text';
 import { marks, radius, spacing, type MarkKind } from './theme';
 
-export function MarkShape({ kind, size = 20 }: { kind: MarkKind; size?: number }) {
+// Memoised: drawn in every chip, feed item and the undo bar, and its props are two primitives.
+export const MarkShape = memo(function MarkShape({ kind, size = 20 }: { kind: MarkKind; size?: number }) {
   const mark = marks[kind];
   return (
     <Svg width={size} height={size} viewBox="0 0 20 20" accessibilityElementsHidden importantForAccessibility="no">
@@ -22,9 +24,9 @@ export function MarkShape({ kind, size = 20 }: { kind: MarkKind; size?: number }
       )}
     </Svg>
   );
-}
+});
 
-export function MarkBadge({ kind, testID }: { kind: MarkKind; testID?: string }) {
+export const MarkBadge = memo(function MarkBadge({ kind, testID }: { kind: MarkKind; testID?: string }) {
   const mark = marks[kind];
   return (
     <View
@@ -38,7 +40,7 @@ export function MarkBadge({ kind, testID }: { kind: MarkKind; testID?: string })
       </Text>
     </View>
   );
-}
+});
 
 const styles = StyleSheet.create({
   badge: {
