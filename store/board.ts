@@ -13,11 +13,9 @@ import { queryOptions, useMutation, useQuery, useQueryClient, type QueryClient }
 import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { v7 as uuidv7 } from 'uuid';
 import type { Phase } from '../shared/cues';
-import { cueSchema, squadSchema, type BoardSessionPatch, type Mark, type Observation, type ObservationPatch } from '../shared/schemas';
+import { type BoardSessionPatch, type Mark, type Observation, type ObservationPatch } from '../shared/schemas';
 import { deviceStore } from '../sync';
-import { apiRequestParsed } from './api';
 import { useSession } from './session';
-import { z } from 'zod';
 
 export const boardKeys = {
   all: ['device'] as const,
@@ -70,35 +68,6 @@ export function useTodaySession(teamId: string) {
     queryFn: async () => (await deviceStore()).startSession(teamId, userId),
     enabled: !!teamId && !!userId,
   });
-}
-
-/**
- * After sign-in with a network: copies the team's squad and cue library from the server into the
- * device (a plain read; offline, the device keeps what it has).
- */
-export function useLoadTeamFromServer(teamId: string) {
-  const client = useQueryClient();
-  const online = useSession((s) => s.status === 'signedIn' && !s.offline && !!s.accessToken);
-  const query = useQuery({
-    queryKey: ['server', teamId, 'board-seed'],
-    enabled: online && !!teamId,
-    staleTime: 5 * 60_000,
-    queryFn: async () => {
-      const [squad, cues] = await Promise.all([
-        apiRequestParsed(`/api/teams/${teamId}/squad`, squadSchema),
-        apiRequestParsed(`/api/teams/${teamId}/cues`, z.array(cueSchema)),
-      ]);
-      await (await deviceStore()).loadTeam(teamId, { ...squad, cues });
-      return { loadedAt: Date.now() };
-    },
-  });
-  useEffect(() => {
-    if (query.data) {
-      void client.invalidateQueries({ queryKey: boardKeys.squad(teamId) });
-      void client.invalidateQueries({ queryKey: boardKeys.cues(teamId) });
-    }
-  }, [client, query.data, teamId]);
-  return query;
 }
 
 /** How long the device must be free of writes before the outbox counts are re-read. */

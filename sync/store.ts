@@ -8,7 +8,7 @@
  */
 import { v5 as uuidv5, v7 as uuidv7 } from 'uuid';
 import { cueLabelSchema, type Phase } from '../shared/cues';
-import { HybridClock } from '../shared/hlc';
+import { encodeHlc, HybridClock } from '../shared/hlc';
 import {
   boardSessionPatchSchema,
   describeIssues,
@@ -484,7 +484,17 @@ export class DeviceStore {
     );
     if (queued > 0) return;
     const { id: _id, teamId: _team, ...fields } = session;
-    const fieldHlc = await this.enqueue({ teamId: session.teamId, userId, table: 'sessions', recordId: session.id, kind: 'upsert', fields, hlc: this.clock.now() });
+    // Every device creates the same session (one per team and day). Its starting values carry
+    // the oldest possible clock, so they never overwrite a rink, title or focus another coach set.
+    const fieldHlc = await this.enqueue({
+      teamId: session.teamId,
+      userId,
+      table: 'sessions',
+      recordId: session.id,
+      kind: 'upsert',
+      fields,
+      hlc: encodeHlc({ wall: 0, counter: 0, node: this.deviceId }),
+    });
     await this.stampRow('sessions', session.id, fieldHlc);
   }
 

@@ -24,7 +24,6 @@ import {
   cuesOnDevice,
   observationsOnDevice,
   squadOnDevice,
-  useLoadTeamFromServer,
   useRemoveObservations,
   useTodaySession,
   useUpdateObservation,
@@ -32,6 +31,7 @@ import {
 } from '../../store/board';
 import { useBoardUi } from '../../store/board-ui';
 import { useConnectivity } from '../../store/connectivity';
+import { useSyncStatus } from '../../store/sync-status';
 import { useActiveMembership, useSession } from '../../store/session';
 import { Banner, Button, Heading, Loading, Text, TextLink, colors, layout, spacing, useBreakpoint } from '../ui';
 import { BoardCaution } from './board-caution';
@@ -63,7 +63,8 @@ export function BoardScreen() {
   const signedInOffline = useSession((s) => s.offline);
   const offline = !serverOnline || signedInOffline;
 
-  const fromServer = useLoadTeamFromServer(teamId);
+  // The squad and cue library reach this device through sync (pull), like everything else.
+  const syncing = useSyncStatus((st) => st.running);
   const squad = useQuery({ ...squadOnDevice(teamId), enabled: !!teamId });
   const cueQuery = useQuery({ ...cuesOnDevice(teamId), enabled: !!teamId });
   const session = useTodaySession(teamId);
@@ -139,14 +140,14 @@ export function BoardScreen() {
   const today = session.data!;
 
   // ---- the three parts ----------------------------------------------------------------------
-  const fetching = fromServer.isFetching && !offline;
+  const fetching = syncing && !offline;
   const tiles =
     skaters.length === 0 ? (
       <View style={styles.empty} testID="board-no-skaters">
         <Text weight="bold">{fetching ? 'Fetching your squad…' : 'No skaters on this device yet'}</Text>
         <Text tone="muted">
           {offline
-            ? 'Skaters come to this device the next time you open the board with a connection. You can also add them under Squad.'
+            ? 'Skaters come to this device with the next sync, once there is a connection. You can also add them under Squad.'
             : 'Add skaters and groups under Squad; they appear here as tiles.'}
         </Text>
         <TextLink href="/squad" label="Go to Squad" testID="board-go-squad" />

@@ -144,6 +144,11 @@ const FeedItem = memo(function FeedItem({
           <Text>{label}</Text>
           <View style={styles.itemHead}>
             <MarkBadge kind={markKind(o.mark)} testID={`feed-mark-${o.id}`} />
+            {o.acknowledgedAt ? (
+              <Text variant="caption" weight="bold" testID={`feed-acked-${o.id}`}>
+                ✓ Seen by skater
+              </Text>
+            ) : null}
             {o.note ? (
               <Text variant="caption" tone="muted">
                 {o.noteShared ? 'Shared with skater' : 'Coaches only'}

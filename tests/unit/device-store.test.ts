@@ -58,6 +58,8 @@ describe('DeviceStore', () => {
     const ops = (await store.listOutbox()).filter((o) => o.table === 'sessions');
     expect(ops).toHaveLength(1);
     expect(ops[0].fields).toMatchObject({ day: session.day, focusCueIds: [] });
+    // Starting values carry the oldest clock: any coach's real edit of the session wins over them.
+    expect(decodeHlc(ops[0].hlc.title).wall).toBe(0);
     expect(await store.pendingByTable()).toEqual({ observations: 2, sessions: 1, cues: 0 });
   });
 
@@ -106,9 +108,9 @@ describe('DeviceStore', () => {
     expect(reopened.device).toBe(store.device);
     const next = await reopened.startSession(TEAM, COACH, '2020-01-01');
     await reopened.updateSession(next.id, COACH, { rink: 'Outdoor oval' });
-    const op = (await reopened.listOutbox()).find((o) => o.recordId === next.id)!;
-    expect(op.hlc.day > last).toBe(true);
-    expect(decodeHlc(op.hlc.day).node).toBe(store.device);
+    const op = (await reopened.listOutbox()).find((o) => o.recordId === next.id && o.fields.rink === 'Outdoor oval')!;
+    expect(op.hlc.rink > last).toBe(true);
+    expect(decodeHlc(op.hlc.rink).node).toBe(store.device);
   });
 
   it('undo of an unsent observation leaves no row and no outbox entry', async () => {

@@ -1,0 +1,128 @@
+/**
+ * The evening: a coach's notes recorded with the server down reach the server when it is back;
+ * the skater, on their own phone (a separate browser context), sees exactly their notes for today
+ * (none of another skater's, no private note text) and acknowledges one; the coach syncs again
+ * and sees the acknowledgement. This test runs its own server so it can stop and restart it.
+ */
+import { spawn, type ChildProcess } from 'node:child_process';
+import path from 'node:path';
+import { expect, test, type Page } from '@playwright/test';
+import { apiCoachWithSkaters, linkFromMail, PHONE, shootBoth, signInThroughForm, uniqueEmail, watchErrors } from './support';
+
+const PORT = 8435;
+const BASE = `http://127.0.0.1:${PORT}`;
+const ROOT = path.resolve(__dirname, '../..');
+let server: ChildProcess | undefined;
+
+async function startServer() {
+  server = spawn(path.join(ROOT, 'node_modules/.bin/tsx'), ['server/main.ts'], {
+    cwd: ROOT,
+    env: { ...process.env, PORT: String(PORT), PUBLIC_URL: BASE, WEB_DIST: path.join(ROOT, 'dist'), LOG_LEVEL: 'warn', TSX_TSCONFIG_PATH: 'server/tsconfig.json' },
+    stdio: 'inherit',
+  });
+  await expect.poll(() => fetch(`${BASE}/api/health`).then((r) => r.ok, () => false), { timeout: 30_000 }).toBe(true);
+}
+
+async function stopServer() {
+  if (!server || server.exitCode !== null) return;
+  const exited = new Promise((resolve) => server!.once('exit', resolve));
+  server.kill('SIGTERM');
+  await exited;
+}
+
+test.afterAll(stopServer);
+
+async function syncNow(page: Page) {
+  await page.getByTestId('sync-summary').first().click();
+  await page.getByTestId('sync-now').click();
+  await expect(page.getByTestId('sync-panel-pending')).toHaveText('0 changes waiting to be sent', { timeout: 20_000 });
+  await expect(page.getByTestId('sync-error')).toHaveCount(0);
+}
+
+test('offline notes reach the server once; the skater reads and acknowledges; the coach sees it', async ({ browser }) => {
+  test.setTimeout(150_000);
+  await startServer();
+  const { coach, skaters, cues } = await apiCoachWithSkaters(BASE, ['Jildou Kramer', 'Klaas Boonstra']);
+  const [jildou, klaas] = skaters;
+
+  // Jildou gets an account through an invitation, as in real life.
+  const skaterEmail = uniqueEmail('jildou');
+  const invite = await fetch(`${BASE}/api/teams/${coach.teamId}/invitations`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${coach.token}`, origin: BASE },
+    body: JSON.stringify({ email: skaterEmail, role: 'skater', skaterId: jildou.id }),
+  });
+  expect(invite.status).toBe(201);
+  const token = new URL(await linkFromMail(skaterEmail)).searchParams.get('token');
+  const accepted = await fetch(`${BASE}/api/invitations/accept`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', origin: BASE },
+    body: JSON.stringify({ token, displayName: 'Jildou Kramer', password: 'skates-laced-tight' }),
+  });
+  expect(accepted.status).toBe(200);
+
+  // --- coach A, at the boards ---
+  const coachContext = await browser.newContext({ viewport: PHONE });
+  const a = await coachContext.newPage();
+  const aErrors = watchErrors(a, [/Failed to load resource/, /ERR_CONNECTION_REFUSED/]);
+  await signInThroughForm(a, BASE, coach.email, coach.password);
+  await expect(a.getByTestId(`skater-tile-${jildou.id}`)).toBeVisible();
+  await a.evaluate(() => navigator.serviceWorker.ready.then(() => true));
+  await stopServer();
+
+  const record = async (skaterId: string, cueIndex: number) => {
+    await a.getByTestId(`skater-tile-${skaterId}`).click();
+    await a.getByTestId(`cue-chip-${cues[cueIndex].id}`).click();
+    await a.getByTestId(`skater-tile-${skaterId}`).click();
+  };
+  for (let i = 0; i < 14; i += 1) await record(jildou.id, i);
+  for (let i = 0; i < 6; i += 1) await record(klaas.id, 14 + i);
+  // A private note on one of Jildou's cues: the skater must never see its text.
+  await record(jildou.id, 20);
+  await a.getByTestId('note-add').click();
+  await a.getByTestId('note-input').fill('Left knee drops in the curve: check with the physio');
+  await a.getByTestId('note-save').click();
+  await expect(a.locator('[data-testid^="feed-item-"]')).toHaveCount(21);
+
+  await startServer();
+  await syncNow(a);
+  const onServer = await fetch(`${BASE}/api/sync/pull?teamId=${coach.teamId}&cursor=0&limit=1000`, {
+    headers: { authorization: `Bearer ${coach.token}` },
+  }).then((r) => r.json() as Promise<{ changes: { table: string; id: string }[] }>);
+  expect(onServer.changes.filter((c) => c.table === 'observations')).toHaveLength(21);
+  // A second sync sends nothing twice.
+  await syncNow(a);
+
+  // --- the skater, on their own phone ---
+  const skaterContext = await browser.newContext({ viewport: PHONE });
+  const b = await skaterContext.newPage();
+  const bErrors = watchErrors(b);
+  await b.goto(`${BASE}/sign-in`);
+  await b.getByTestId('sign-in-email').fill(skaterEmail);
+  await b.getByTestId('sign-in-password').fill('skates-laced-tight');
+  await b.getByTestId('sign-in-submit').click();
+  await expect(b.getByTestId('skater-home')).toBeVisible();
+  const acks = b.locator('[data-testid^="ack-"]');
+  await expect(acks).toHaveCount(15, { timeout: 20_000 });
+  for (let i = 14; i < 20; i += 1) await expect(b.getByText(cues[i].label, { exact: true })).toHaveCount(0);
+  await expect(b.getByText(/physio/)).toHaveCount(0);
+  await shootBoth(b, 'skater-today');
+
+  const first = await acks.first().getAttribute('data-testid');
+  const observationId = first!.slice('ack-'.length);
+  await acks.first().click();
+  await expect(b.getByTestId(`acked-${observationId}`)).toBeVisible();
+  await b.getByTestId('today-refresh').click();
+  await expect(b.getByTestId('today-pending')).toHaveCount(0, { timeout: 20_000 });
+  bErrors();
+
+  // --- coach A syncs again and sees the acknowledgement ---
+  await a.getByTestId('sync-close').click();
+  await syncNow(a);
+  await a.getByTestId('sync-close').click();
+  await expect(a.getByTestId(`feed-acked-${observationId}`)).toBeVisible({ timeout: 20_000 });
+  await shootBoth(a, 'board-after-sync');
+  aErrors();
+  await coachContext.close();
+  await skaterContext.close();
+});
