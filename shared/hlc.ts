@@ -71,4 +71,13 @@ export class HybridClock {
   current(): string {
     return encodeHlc({ wall: this.wall, counter: this.counter, node: this.node });
   }
+
+  /**
+   * Moves the clock by `deltaMs` after the device learned that its wall clock was wrong (a
+   * negative delta for a clock that ran ahead). The only way the clock goes back, on purpose:
+   * values issued from a wrong wall clock must not keep winning conflicts.
+   */
+  rebase(deltaMs: number): void {
+    this.wall = Math.max(0, this.wall + Math.round(deltaMs));
+  }
 }

@@ -3,6 +3,7 @@
  * API client (auth refresh, timeouts, parsed answers). Failures become the sync's error classes
  * (sync/transport.ts) so the run knows whether to retry later, re-sync, or split a batch.
  */
+import { z } from 'zod';
 import { pullReplySchema, pushReplySchema } from '../shared/schemas/sync';
 import { RequestRefused, ResyncRequired, ServerUnavailable, TransportError, type SyncTransport } from '../sync/transport';
 import { apiRequestParsed, isApiRequestError, NETWORK_MESSAGE } from './api';
@@ -28,7 +29,10 @@ async function call<T>(request: () => Promise<T>): Promise<T> {
   }
 }
 
+const healthSchema = z.object({ serverTime: z.string() });
+
 export const httpSyncTransport: SyncTransport = {
+  time: () => call(async () => (await apiRequestParsed('/api/health', healthSchema)).serverTime),
   push: (body) => call(() => apiRequestParsed('/api/sync/push', pushReplySchema, { method: 'POST', body })),
   pull: ({ teamId, cursor, limit }) => {
     const query = new URLSearchParams({ teamId, cursor: String(cursor), limit: String(limit) });

@@ -45,6 +45,10 @@ export function synchronize(options: SynchronizeOptions): Promise<SyncResult> {
 }
 
 async function runOnce({ store, transport, teamId, clientId, onProgress, batchSize, pageSize }: SynchronizeOptions): Promise<SyncResult> {
+  if (transport.time) {
+    // Best effort: a device that cannot ask the time still syncs (the server clamps its clocks).
+    await store.correctClock(() => transport.time!()).catch(() => undefined);
+  }
   let push: PushSummary;
   try {
     push = await pushOutbox(store, transport, { teamId, clientId: clientId ?? store.clientId, batchSize });

@@ -8,7 +8,7 @@
  */
 import { v5 as uuidv5, v7 as uuidv7 } from 'uuid';
 import { cueLabelSchema, type Phase } from '../shared/cues';
-import { encodeHlc, HybridClock } from '../shared/hlc';
+import { decodeHlc, encodeHlc, HybridClock } from '../shared/hlc';
 import {
   boardSessionPatchSchema,
   describeIssues,
@@ -100,6 +100,9 @@ export const toOutboxEntry = (r: OutboxRow): OutboxEntry => ({
 });
 
 /** Meta keys the sync keeps per team. */
+/** A device clock within a minute of the server's is left alone (the server clamps beyond that). */
+const CLOCK_TOLERANCE_MS = 60_000;
+
 export const metaKeys = {
   cursor: (teamId: string) => `cursor:${teamId}`,
   lastSyncAt: (teamId: string) => `last_sync_at:${teamId}`,
@@ -247,21 +250,28 @@ export class DeviceStore {
   private readonly queue = new SerialQueue();
   private clock!: HybridClock;
   private deviceId!: string;
+  /** The device's own clock, as it reads. */
+  private readonly physical: () => number;
+  /** Server time minus device time, learned from the server (0 until then; kept in meta). */
+  private offset = 0;
+  /** Device time corrected by what the server said: used for clocks, timestamps and the day. */
   private readonly now: () => number;
 
   private constructor(
     private readonly db: SqlDriver,
     options: StoreOptions,
   ) {
-    this.now = options.now ?? Date.now;
+    this.physical = options.now ?? Date.now;
+    this.now = () => this.physical() + this.offset;
   }
 
   /** Opens the store: migrates the schema and restores the device id and clock. */
   static async open(db: SqlDriver, options: StoreOptions = {}): Promise<DeviceStore> {
     const store = new DeviceStore(db, options);
     await migrateDevice(db);
-    const meta = await db.all<{ key: string; value: string }>(`SELECT key, value FROM meta WHERE key IN ('device_id', 'hlc')`);
+    const meta = await db.all<{ key: string; value: string }>(`SELECT key, value FROM meta WHERE key IN ('device_id', 'hlc', 'clock_offset')`);
     const get = (key: string) => meta.find((m) => m.key === key)?.value;
+    store.offset = Number(get('clock_offset') ?? 0) || 0;
     store.deviceId = get('device_id') ?? uuidv7();
     if (!get('device_id')) await db.run(`INSERT INTO meta (key, value) VALUES ('device_id', ?)`, [store.deviceId]);
     store.clock = new HybridClock(store.deviceId, store.now, get('hlc'));
@@ -275,6 +285,43 @@ export class DeviceStore {
   /** The id this device pushes under (the device id: one per database, kept in meta). */
   get clientId(): string {
     return this.deviceId;
+  }
+
+  /**
+   * Corrects this device's clock by the server's (asked just before a push). A device whose clock
+   * runs far off (a year ahead, say) would otherwise win every edit conflict with values stamped
+   * from the wrong time. Past one minute of error: the clock is moved, and the changes still
+   * waiting to be sent get their clock values moved by the same amount, so each keeps its place
+   * in real time. Changes already sent keep theirs (the server may have applied them).
+   */
+  async correctClock(askServer: () => Promise<string>): Promise<number> {
+    const sentAt = this.physical();
+    const serverMs = Date.parse(await askServer());
+    const receivedAt = this.physical();
+    if (!Number.isFinite(serverMs)) return this.offset;
+    const measured = serverMs - (sentAt + receivedAt) / 2;
+    const delta = measured - this.offset;
+    if (Math.abs(delta) <= CLOCK_TOLERANCE_MS) return this.offset;
+    await this.tx(async () => {
+      const pending = await this.db.all<{ seq: number; hlc: string }>(`SELECT seq, hlc FROM outbox WHERE sent_at IS NULL`);
+      for (const entry of pending) {
+        const moved = Object.fromEntries(
+          Object.entries(JSON.parse(entry.hlc) as Record<string, string>).map(([field, value]) => {
+            const parts = decodeHlc(value);
+            // Starting values (clock 0) and values from other devices stay as they are.
+            if (parts.wall === 0 || parts.node !== this.deviceId) return [field, value];
+            return [field, encodeHlc({ ...parts, wall: Math.max(1, Math.round(parts.wall + delta)) })];
+          }),
+        );
+        await this.db.run(`UPDATE outbox SET hlc = ? WHERE seq = ?`, [JSON.stringify(moved), entry.seq]);
+      }
+      this.offset = Math.round(measured);
+      this.clock.rebase(delta);
+      await this.db.run(`INSERT INTO meta (key, value) VALUES ('clock_offset', ?) ON CONFLICT (key) DO UPDATE SET value = excluded.value`, [
+        String(this.offset),
+      ]);
+    });
+    return this.offset;
   }
 
   /** For the sync modules only (see SyncInternals). */

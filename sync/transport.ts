@@ -21,6 +21,8 @@ export interface PullQuery {
 export interface SyncTransport {
   push(body: PushBody): Promise<PushReply>;
   pull(q: PullQuery): Promise<PullReply>;
+  /** The server's current time (ISO). Optional: lets a device with a wrong clock correct itself. */
+  time?(): Promise<string>;
 }
 
 export class TransportError extends Error {

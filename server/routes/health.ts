@@ -7,7 +7,8 @@ export function healthRoutes(dataSource: DataSource) {
   router.get('/health', async (_req, res) => {
     try {
       await dataSource.query('SELECT 1');
-      res.json({ status: 'ok', database: 'up' });
+      // serverTime lets a device with a wrong clock correct itself before it sends changes.
+      res.set('Cache-Control', 'no-store').json({ status: 'ok', database: 'up', serverTime: new Date().toISOString() });
     } catch {
       res.status(503).json({ status: 'degraded', database: 'down' });
     }

@@ -106,4 +106,5 @@ test('a whole session recorded with the server down survives a reload: 24 notes,
   await page.setViewportSize(DESKTOP);
   await shootBoth(page, 'board-offline-after-reload');
   check();
+  await page.close();
 });

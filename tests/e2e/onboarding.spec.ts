@@ -72,6 +72,7 @@ test('head coach signs up, invites a skater, the skater joins and lands on their
   await expect(skater.getByTestId('skater-home')).toBeVisible();
   skaterErrors();
   await skaterContext.close();
+  await coach.close();
 });
 
 test('a wrong password shows the server message next to the form, and the page has no errors', async ({ page }) => {

@@ -37,6 +37,8 @@ async function syncNow(page: Page) {
   await page.getByTestId('sync-now').click();
   await expect(page.getByTestId('sync-panel-pending')).toHaveText('0 changes waiting to be sent', { timeout: 20_000 });
   await expect(page.getByTestId('sync-error')).toHaveCount(0);
+  await expect(page.getByTestId('sync-panel-last')).toContainText('Synced');
+  await page.getByTestId('sync-close').click();
 }
 
 test('offline notes reach the server once; the skater reads and acknowledges; the coach sees it', async ({ browser }) => {
@@ -117,9 +119,7 @@ test('offline notes reach the server once; the skater reads and acknowledges; th
   bErrors();
 
   // --- coach A syncs again and sees the acknowledgement ---
-  await a.getByTestId('sync-close').click();
   await syncNow(a);
-  await a.getByTestId('sync-close').click();
   await expect(a.getByTestId(`feed-acked-${observationId}`)).toBeVisible({ timeout: 20_000 });
   await shootBoth(a, 'board-after-sync');
   aErrors();

@@ -13,7 +13,8 @@ afterAll(async () => {
 describe('GET /api/health', () => {
   it('is 200 with the database up', async () => {
     const res = await request(server.app).get('/api/health').expect(200);
-    expect(res.body).toEqual({ status: 'ok', database: 'up' });
+    expect(res.body).toEqual({ status: 'ok', database: 'up', serverTime: expect.any(String) });
+    expect(Math.abs(Date.parse(res.body.serverTime) - Date.now())).toBeLessThan(5_000);
   });
 
   it('is 503 with the database down when the server has no working connection', async () => {

@@ -407,11 +407,10 @@ describe('5. a device clock one year ahead', () => {
     await fc.assert(conflicts(fc.constant<When>('once edited')), { seed: 5150, numRuns: 4, endOnFailure: true });
   });
 
-  // KNOWN GAP (see the report): an edit the fast device made while offline is clamped to the
-  // server's now + 60 s when it finally arrives, so it beats an honest edit made after it in real
-  // time but pushed before it. The device would have to correct its own clock by the offset it
-  // sees in server replies (sync/store.ts makes the clock). it.failing turns red once fixed.
-  it.failing("KNOWN GAP: also wins none when its offline edit arrives after the other device's later edit", async () => {
+  // The fast device asks the server's time before it pushes, finds its clock a year ahead, and
+  // moves the clock values of its unsent edits back by that much: its offline edit keeps its real
+  // place in time and loses to the honest edit made after it.
+  it("also wins none when its offline edit arrives after the other device's later edit", async () => {
     await fc.assert(conflicts(fc.constant<When>('after the honest edit')), { seed: 5151, numRuns: 1, endOnFailure: true });
   });
 });

@@ -177,3 +177,29 @@ describe('DeviceStore', () => {
     expect((await store.listCues(TEAM)).find((c) => c.id === cue.id)!.label).toBe('Ankles lead the lean');
   });
 });
+
+describe('clock correction', () => {
+  it('a device a year ahead moves its clock and its unsent edits back by what the server says', async () => {
+    const year = 365 * 86_400_000;
+    const realNow = Date.UTC(2026, 11, 2, 9);
+    const { store, session } = await openStore(() => realNow + year);
+    const [o] = await store.recordObservations({ teamId: TEAM, userId: COACH, sessionId: session.id, skaterIds: [skaterIds[0]], cueId: cue.id, mark: 'needs_work' });
+    const before = (await store.listOutbox()).find((op) => op.recordId === o.id)!;
+    expect(decodeHlc(before.hlc.mark).wall).toBe(realNow + year);
+
+    const offset = await store.correctClock(async () => new Date(realNow).toISOString());
+    expect(offset).toBe(-year);
+    const after = (await store.listOutbox()).find((op) => op.recordId === o.id)!;
+    expect(decodeHlc(after.hlc.mark).wall).toBe(realNow);
+    // New edits are stamped with the corrected time, and the correction survives a restart.
+    await store.updateObservation(o.id, COACH, { mark: 'good' });
+    const edit = (await store.listOutbox()).filter((op) => op.recordId === o.id)[1];
+    expect(decodeHlc(edit.hlc.mark).wall).toBeLessThan(realNow + 60_000);
+  });
+
+  it('leaves a clock within a minute of the server alone', async () => {
+    const realNow = Date.UTC(2026, 11, 2, 9);
+    const { store } = await openStore(() => realNow + 30_000);
+    expect(await store.correctClock(async () => new Date(realNow).toISOString())).toBe(0);
+  });
+});

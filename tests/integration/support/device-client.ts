@@ -165,6 +165,12 @@ export class FaultyTransport implements SyncTransport {
     return this.call('pull', q, () => this.http(`/api/sync/pull?${query.toString()}`, { method: 'GET' })).then((reply) => pullReplySchema.parse(reply));
   }
 
+  /** The server's time, asked straight (no faults): lets a device with a wrong clock correct it. */
+  async time(): Promise<string> {
+    const response = await fetch(`${this.base}/api/health`);
+    return ((await response.json()) as { serverTime: string }).serverTime;
+  }
+
   /** Waits for every late request to have reached the server. */
   async drainGhosts(): Promise<void> {
     while (this.ghosts.length > 0) await Promise.allSettled(this.ghosts.splice(0));
