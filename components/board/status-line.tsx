@@ -7,7 +7,7 @@ import { memo, useMemo } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { usePendingSummary } from '../../store/board';
-import { Text, colors, radius, spacing } from '../ui';
+import { OfflineBadge, Text, spacing } from '../ui';
 import { formatDay } from './format';
 
 export type StatusLineProps = {
@@ -31,12 +31,7 @@ export function StatusLine({ day, offline, pending, title, rink }: StatusLinePro
       </Text>
       <View style={styles.right}>
         {offline ? (
-          <View style={styles.offline} testID="status-offline" accessibilityLabel="Offline: notes are kept on this device">
-            <View style={styles.dot} />
-            <Text weight="bold" variant="caption">
-              Offline
-            </Text>
-          </View>
+          <OfflineBadge testID="status-offline" accessibilityLabel="Offline: notes are kept on this device" />
         ) : null}
         <Text variant="caption" tone={pending.total > 0 ? 'default' : 'muted'} weight={pending.total > 0 ? 'bold' : 'regular'} testID="status-pending">
           {pending.text}
@@ -65,17 +60,4 @@ const styles = StyleSheet.create({
     rowGap: spacing.xxs,
   },
   right: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm, flexWrap: 'wrap' },
-  // A hollow ring plus the word: offline is told by text, never by colour.
-  offline: {
-    flexDirection: 'row',
-    alignItems: 'center',
-    gap: spacing.xxs,
-    paddingHorizontal: spacing.sm,
-    paddingVertical: 2,
-    borderRadius: radius.pill,
-    borderWidth: 2,
-    borderColor: colors.ink,
-    backgroundColor: colors.surface,
-  },
-  dot: { width: 10, height: 10, borderRadius: 5, borderWidth: 2, borderColor: colors.ink },
 });

@@ -5,7 +5,7 @@
 import { StyleSheet, View } from 'react-native';
 
 import { useSyncStatus } from '../../store/sync-status';
-import { Button, Text, colors, radius, spacing } from '../ui';
+import { Button, OfflineBadge, Text, spacing } from '../ui';
 import { clockTime, plural } from './format';
 
 export function lastSyncText(iso: string | null, now = new Date()): string {
@@ -26,10 +26,7 @@ export function SyncLine({ offline, onRefresh }: SyncLineProps) {
     <View style={styles.wrap} testID="today-sync" accessibilityRole="summary">
       <View style={styles.line}>
         {offline ? (
-          <View style={styles.offline} testID="today-offline" accessibilityLabel="Offline: your cues are kept on this device">
-            <View style={styles.ring} />
-            <Text weight="bold">Offline</Text>
-          </View>
+          <OfflineBadge large testID="today-offline" accessibilityLabel="Offline: your cues are kept on this device" />
         ) : null}
         <Text tone="muted" testID="today-last-sync" style={styles.grow}>
           {running ? 'Syncing…' : lastSyncText(lastSyncAt)}
@@ -61,17 +58,4 @@ const styles = StyleSheet.create({
   wrap: { gap: spacing.xxs },
   line: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm, flexWrap: 'wrap' },
   grow: { flexShrink: 1, flexGrow: 1 },
-  // A hollow ring plus the word: offline is told by text, never by colour.
-  offline: {
-    flexDirection: 'row',
-    alignItems: 'center',
-    gap: spacing.xxs,
-    paddingHorizontal: spacing.sm,
-    paddingVertical: 2,
-    borderRadius: radius.pill,
-    borderWidth: 2,
-    borderColor: colors.ink,
-    backgroundColor: colors.surface,
-  },
-  ring: { width: 12, height: 12, borderRadius: 6, borderWidth: 2, borderColor: colors.ink },
 });

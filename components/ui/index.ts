@@ -14,3 +14,4 @@ export * from './use-zod-form';
 export * from './text-link';
 export * from './placeholder-panel';
 export * from './toggle-row';
+export * from './offline-badge';

@@ -3,36 +3,13 @@
  * server, reloads, and finds every note (and its outbox entry) still on the device. This test
  * starts its own server so it can stop it; the web app then comes from the service worker.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
-import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
-import { apiCoachWithSkaters, DESKTOP, PHONE, shootBoth, signInThroughForm, watchErrors } from './support';
+import { apiCoachWithSkaters, DESKTOP, PHONE, shootBoth, signInThroughForm, watchErrors, ownServer } from './support';
 
-const PORT = 8433;
-const BASE = `http://127.0.0.1:${PORT}`;
-const ROOT = path.resolve(__dirname, '../..');
-let server: ChildProcess | undefined;
-
-async function startServer() {
-  server = spawn(path.join(ROOT, 'node_modules/.bin/tsx'), ['server/main.ts'], {
-    cwd: ROOT,
-    env: { ...process.env, PORT: String(PORT), PUBLIC_URL: BASE, WEB_DIST: path.join(ROOT, 'dist'), LOG_LEVEL: 'warn', TSX_TSCONFIG_PATH: 'server/tsconfig.json' },
-    stdio: 'inherit',
-  });
-  for (let i = 0; i < 100; i += 1) {
-    if (await fetch(`${BASE}/api/health`).then((r) => r.ok, () => false)) return;
-    await new Promise((resolve) => setTimeout(resolve, 200));
-  }
-  throw new Error('the board test server did not start');
-}
-
-async function stopServer() {
-  if (!server || server.exitCode !== null) return;
-  const exited = new Promise((resolve) => server!.once('exit', resolve));
-  server.kill('SIGTERM');
-  await exited;
-  await expect.poll(() => fetch(`${BASE}/api/health`).then(() => 'up', () => 'down')).toBe('down');
-}
+const server = ownServer(8433);
+const BASE = server.base;
+const startServer = () => server.start();
+const stopServer = () => server.stop();
 
 test.afterAll(stopServer);
 

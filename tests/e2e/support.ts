@@ -2,6 +2,7 @@
  * Shared helpers for the browser tests: captured mail from the sink's folder, screenshots at the
  * two widths we design for, and watching the page for errors a person would notice.
  */
+import { spawn, type ChildProcess } from 'node:child_process';
 import { mkdirSync, readdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { expect, type Page } from '@playwright/test';
@@ -105,4 +106,33 @@ export async function signInThroughForm(page: Page, base: string, email: string,
   await page.getByTestId('sign-in-password').fill(password);
   await page.getByTestId('sign-in-submit').click();
   await expect(page.getByTestId('coach-home')).toBeVisible();
+}
+
+/**
+ * A server of the test's own on `port`, which the test can stop and start again (the shared one
+ * on E2E_BASE_URL must stay up). Same database and settings as the shared one, from the env.
+ */
+export function ownServer(port: number) {
+  const base = `http://127.0.0.1:${port}`;
+  const root = path.resolve(__dirname, '../..');
+  let child: ChildProcess | undefined;
+  const up = () => fetch(`${base}/api/health`).then((r) => r.ok, () => false);
+  return {
+    base,
+    async start() {
+      child = spawn(path.join(root, 'node_modules/.bin/tsx'), ['server/main.ts'], {
+        cwd: root,
+        env: { ...process.env, PORT: String(port), PUBLIC_URL: base, WEB_DIST: path.join(root, 'dist'), LOG_LEVEL: 'warn', TSX_TSCONFIG_PATH: 'server/tsconfig.json' },
+        stdio: 'inherit',
+      });
+      await expect.poll(up, { timeout: 30_000, message: `the test server on ${base} did not start` }).toBe(true);
+    },
+    async stop() {
+      if (!child || child.exitCode !== null) return;
+      const exited = new Promise((resolve) => child!.once('exit', resolve));
+      child.kill('SIGTERM');
+      await exited;
+      await expect.poll(up).toBe(false);
+    },
+  };
 }

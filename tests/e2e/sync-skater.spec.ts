@@ -4,31 +4,13 @@
  * (none of another skater's, no private note text) and acknowledges one; the coach syncs again
  * and sees the acknowledgement. This test runs its own server so it can stop and restart it.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
-import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
-import { apiCoachWithSkaters, linkFromMail, PHONE, shootBoth, signInThroughForm, uniqueEmail, watchErrors } from './support';
+import { apiCoachWithSkaters, linkFromMail, PHONE, shootBoth, signInThroughForm, uniqueEmail, watchErrors, ownServer } from './support';
 
-const PORT = 8435;
-const BASE = `http://127.0.0.1:${PORT}`;
-const ROOT = path.resolve(__dirname, '../..');
-let server: ChildProcess | undefined;
-
-async function startServer() {
-  server = spawn(path.join(ROOT, 'node_modules/.bin/tsx'), ['server/main.ts'], {
-    cwd: ROOT,
-    env: { ...process.env, PORT: String(PORT), PUBLIC_URL: BASE, WEB_DIST: path.join(ROOT, 'dist'), LOG_LEVEL: 'warn', TSX_TSCONFIG_PATH: 'server/tsconfig.json' },
-    stdio: 'inherit',
-  });
-  await expect.poll(() => fetch(`${BASE}/api/health`).then((r) => r.ok, () => false), { timeout: 30_000 }).toBe(true);
-}
-
-async function stopServer() {
-  if (!server || server.exitCode !== null) return;
-  const exited = new Promise((resolve) => server!.once('exit', resolve));
-  server.kill('SIGTERM');
-  await exited;
-}
+const server = ownServer(8435);
+const BASE = server.base;
+const startServer = () => server.start();
+const stopServer = () => server.stop();
 
 test.afterAll(stopServer);
 
