@@ -40,6 +40,7 @@ const NOTES = ['', '', 'Knee over toe on the exit of the curve', '', 'Arms quiet
 
 interface Team {
   label: string;
+  email: string;
   token: string;
   teamId: string;
   userId: string;
@@ -101,9 +102,10 @@ async function push(team: Team, ops: Op[]): Promise<void> {
 /** A head coach with a team of 12 skaters, the team's cues, and one session (created by push). */
 async function newTeam(label: string): Promise<Team> {
   signUps += 1;
+  const email = `bench.sync.${Date.now()}.${signUps}@bench.example`;
   const signedUp = await api<{ accessToken: string; user: { id: string }; memberships: { teamId: string }[] }>('/api/auth/sign-up', {
     body: {
-      email: `bench.sync.${Date.now()}.${signUps}@bench.example`,
+      email,
       password: 'bench-password-123',
       displayName: `Bench Coach ${signUps}`,
       teamName: `Sync Bench ${label}`,
@@ -119,7 +121,7 @@ async function newTeam(label: string): Promise<Team> {
   const cueIds = (await api<{ id: string }[]>(`/api/teams/${teamId}/cues`, { token })).map((c) => c.id);
   const clientId = uuidv7();
   const team: Team = {
-    label, token, teamId, userId: signedUp.user.id, clientId, skaterIds, cueIds,
+    label, email, token, teamId, userId: signedUp.user.id, clientId, skaterIds, cueIds,
     sessionId: uuidv7(), clock: new HybridClock(clientId),
   };
   const hlc = team.clock.now();
@@ -318,8 +320,44 @@ async function main() {
     console.log(ratio('ratio push (1 client) / raw upsert:', rate(median(results.push1)) / raw));
     console.log(ratio('ratio push (2 clients) / raw upsert:', rate(median(results.push2)) / raw));
     console.log(ratio('ratio pull / raw paged read:', rate(median(results.pull)) / read));
+    if (readTeam) await firstPullInBrowser(readTeam);
   } finally {
     await db.end();
+  }
+}
+
+/**
+ * A first pull into the browser's device store: a new device (fresh browser profile) signs in as
+ * the coach of the team holding the pushed observations; the board opens and syncs everything
+ * down. Measured from the sign-in tap to the sync line saying "Synced", then the rows are counted
+ * on the device.
+ */
+async function firstPullInBrowser(team: Team) {
+  const { chromium } = await import('playwright-core');
+  const { execSync } = await import('node:child_process');
+  const browser = await chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? execSync('command -v chromium', { encoding: 'utf8' }).trim(),
+    args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+  try {
+    const page = await browser.newPage({ viewport: { width: 1440, height: 900 } });
+    await page.addInitScript('globalThis.__name = (f) => f;');
+    await page.goto(`${BASE}/sign-in`);
+    await page.evaluate(() => localStorage.setItem('boardside.bench', '1'));
+    await page.getByTestId('sign-in-email').fill(team.email);
+    await page.getByTestId('sign-in-password').fill('bench-password-123');
+    const started = performance.now();
+    await page.getByTestId('sign-in-submit').click();
+    await page.getByTestId('sync-last').filter({ hasText: /^Synced/ }).waitFor({ timeout: 600_000 });
+    const seconds = (performance.now() - started) / 1000;
+    const stored = await page.evaluate(async () => {
+      const { driver } = (globalThis as any).__boardsideBench;
+      const [{ n }] = await driver.all('SELECT count(*) AS n FROM observations');
+      return n as number;
+    });
+    console.log(`\n  first pull into the browser's device store: ${int(stored)} observations in ${seconds.toFixed(1)} s (${int(stored / seconds)} rows/s), sign-in tap to "Synced"`);
+  } finally {
+    await browser.close();
   }
 }
 

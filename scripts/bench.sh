@@ -24,11 +24,20 @@ build_web
 )
 wait_http "http://127.0.0.1:$BENCH_PORT/api/health" "the bench server" "$DATA/bench-server.log"
 
-log "sync: push and pull throughput against raw PostgreSQL (50,000 observations)"
-BENCH_BASE_URL="http://127.0.0.1:$BENCH_PORT" tsx bench/sync.ts
+# BENCH_ONLY=sync|board|convergence runs one step (default: all of them).
+step() { [ -z "${BENCH_ONLY:-}" ] || [ "$BENCH_ONLY" = "$1" ]; }
 
-log "board: 50,000 stored observations, 200 taps"
-BENCH_BASE_URL="http://127.0.0.1:$BENCH_PORT" tsx bench/board.ts
+if step sync; then
+  log "sync: push and pull throughput against raw PostgreSQL (50,000 observations), then a first pull in the browser"
+  BENCH_BASE_URL="http://127.0.0.1:$BENCH_PORT" tsx bench/sync.ts
+fi
 
-log "sync convergence: 20 clients x 500 ops, requests and replies lost, clocks skewed"
-tsx bench/convergence.ts
+if step board; then
+  log "board: 50,000 stored observations, 200 taps in two passes"
+  BENCH_BASE_URL="http://127.0.0.1:$BENCH_PORT" tsx bench/board.ts
+fi
+
+if step convergence; then
+  log "sync convergence: 20 clients x 500 ops, requests and replies lost, clocks skewed"
+  tsx bench/convergence.ts
+fi
