@@ -22,7 +22,7 @@ import { synchronize } from '../../sync/engine';
 import { SyncError } from '../../sync/errors';
 import { TransportError } from '../../sync/transport';
 import { startTestServer, type Account, type TestServer } from './helpers';
-import { makeTeam, userIdOf, type SyncTeam } from './sync-helpers';
+import { makeTeam, seedObservations, userIdOf, type SyncTeam } from './sync-helpers';
 import { describeResult, runConvergence, scheduleArb } from './support/convergence';
 import { deviceState, diffTable, listen, openDevice, serverState, type Endpoint, type FaultPolicy, type SimDevice } from './support/device-client';
 
@@ -421,17 +421,7 @@ describe('6. first pull of 50,000 rows into a fresh device', () => {
 
   beforeAll(async () => {
     big = await makeTeam(server.app, 'e2efifty', { people: false });
-    await server.dataSource.transaction(async (tx) => {
-      const [rows] = await tx.query(`UPDATE team_counters SET seq = seq + $2 WHERE team_id = $1 RETURNING seq`, [big.teamId, ROWS]);
-      const first = Number(rows[0].seq) - ROWS + 1;
-      await tx.query(
-        `INSERT INTO observations (team_id, id, session_id, skater_id, cue_id, mark, note, created_at, created_by, server_seq)
-         SELECT $1, gen_random_uuid(), $2, $3, $4, CASE WHEN g % 2 = 0 THEN 'good' ELSE 'needs_work' END, 'seeded ' || g,
-                now(), $5, $6::bigint + g
-           FROM generate_series(0, $7::int - 1) AS g`,
-        [big.teamId, big.sessionId, big.skaterA.id, big.cueIds[0], big.head.session.user.id, first, ROWS],
-      );
-    });
+    await seedObservations(server.dataSource, big, ROWS);
   }, 60_000);
 
   const openBig = (options: Partial<Parameters<typeof openDevice>[2]> = {}) => openDevice(endpoint, big.head, { label: 'fifty', teamId: big.teamId, ...options });

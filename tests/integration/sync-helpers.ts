@@ -6,6 +6,7 @@
 import request from 'supertest';
 import { v4 as uuidv4, v7 as uuidv7 } from 'uuid';
 import type { Express } from 'express';
+import type { DataSource } from 'typeorm';
 import { HybridClock } from '../../shared/hlc';
 import type { Op, PullReply, PushReply, PushTable } from '../../shared/schemas/sync';
 import type { Skater } from '../../shared/schemas';
@@ -160,4 +161,19 @@ export function latest(drained: Drained): Map<string, Record<string, unknown> | 
   const map = new Map<string, Record<string, unknown> | 'deleted'>();
   for (const row of rows) map.set(row.key, row.value);
   return map;
+}
+
+/** `rows` observations for `team` in bulk, numbered from the team counter in one transaction like any writer. */
+export async function seedObservations(dataSource: DataSource, team: SyncTeam, rows: number): Promise<void> {
+  await dataSource.transaction(async (tx) => {
+    const [counter] = await tx.query(`UPDATE team_counters SET seq = seq + $2 WHERE team_id = $1 RETURNING seq`, [team.teamId, rows]);
+    const first = Number(counter[0].seq) - rows + 1;
+    await tx.query(
+      `INSERT INTO observations (team_id, id, session_id, skater_id, cue_id, mark, note, created_at, created_by, server_seq)
+       SELECT $1, gen_random_uuid(), $2, $3, $4, CASE WHEN g % 2 = 0 THEN 'good' ELSE 'needs_work' END, 'seeded ' || g,
+              now(), $5, $6::bigint + g
+         FROM generate_series(0, $7::int - 1) AS g`,
+      [team.teamId, team.sessionId, team.skaterA.id, team.cueIds[0], team.head.session.user.id, first, rows],
+    );
+  });
 }

@@ -10,7 +10,7 @@ import { v7 as uuidv7 } from 'uuid';
 import type { PullReply } from '../../shared/schemas/sync';
 import { purgeTombstones } from '../../server/services/sync/purge';
 import { expectError, startTestServer, type TestServer } from './helpers';
-import { device, latest, makeTeam, newObservation, pull, pullAll, push, pushOk, remove, type SyncTeam } from './sync-helpers';
+import { device, latest, makeTeam, newObservation, seedObservations, pull, pullAll, push, pushOk, remove, type SyncTeam } from './sync-helpers';
 
 let server: TestServer;
 let team: SyncTeam;
@@ -137,18 +137,7 @@ describe('a 50,000-row first pull', () => {
 
   beforeAll(async () => {
     big = await makeTeam(server.app, 'fifty', { people: false });
-    // Seed in bulk, numbered from the team counter in one transaction like any writer.
-    await server.dataSource.transaction(async (tx) => {
-      const [rows] = await tx.query(`UPDATE team_counters SET seq = seq + $2 WHERE team_id = $1 RETURNING seq`, [big.teamId, ROWS]);
-      const first = Number(rows[0].seq) - ROWS + 1;
-      await tx.query(
-        `INSERT INTO observations (team_id, id, session_id, skater_id, cue_id, mark, note, created_at, created_by, server_seq)
-         SELECT $1, gen_random_uuid(), $2, $3, $4, CASE WHEN g % 2 = 0 THEN 'good' ELSE 'needs_work' END, 'seeded ' || g,
-                now(), $5, $6::bigint + g
-           FROM generate_series(0, $7::int - 1) AS g`,
-        [big.teamId, big.sessionId, big.skaterA.id, big.cueIds[0], big.head.session.user.id, first, ROWS],
-      );
-    });
+    await seedObservations(server.dataSource, big, ROWS);
   });
 
   it('pages 1,000 at a time in server order, with remaining counting down to 0', async () => {
