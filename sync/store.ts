@@ -252,6 +252,8 @@ export class DeviceStore {
   private deviceId!: string;
   /** The device's own clock, as it reads. */
   private readonly physical: () => number;
+  /** Sessions already queued or synced, so a tap need not check again (cleared by every sync). */
+  private readonly sessionsQueued = new Set<string>();
   /** Server time minus device time, learned from the server (0 until then; kept in meta). */
   private offset = 0;
   /** Device time corrected by what the server said: used for clocks, timestamps and the day. */
@@ -326,6 +328,8 @@ export class DeviceStore {
 
   /** For the sync modules only (see SyncInternals). */
   syncInternals(): SyncInternals {
+    // Sync may drop or re-create session rows and outbox entries: check sessions afresh.
+    this.sessionsQueued.clear();
     return {
       db: this.db,
       transaction: (work) => this.tx(work),
@@ -402,9 +406,14 @@ export class DeviceStore {
     const note = validate<string>(noteSchema, input.note ?? '');
     const createdAt = new Date(this.now()).toISOString();
     return this.tx(async () => {
-      const session = await this.getSession(input.sessionId);
-      if (!session) throw new StoreError('Start the session first');
-      await this.ensureSessionQueued(session, input.userId);
+      // A tap is the hot path: once a session is known to be queued (or synced), skip the two
+      // look-ups that check it, so a tap costs two inserts and the commit.
+      if (!this.sessionsQueued.has(input.sessionId)) {
+        const session = await this.getSession(input.sessionId);
+        if (!session) throw new StoreError('Start the session first');
+        await this.ensureSessionQueued(session, input.userId);
+        this.sessionsQueued.add(input.sessionId);
+      }
       const created: Observation[] = [];
       for (const [index, skaterId] of input.skaterIds.entries()) {
         const observation: Observation = {
@@ -420,13 +429,14 @@ export class DeviceStore {
           createdBy: input.userId,
         };
         const hlc = this.clock.now();
-        await this.db.run(
-          `INSERT INTO observations (${OBSERVATION_COLUMNS}, hlc) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, '{}')`,
-          [observation.id, observation.teamId, observation.sessionId, skaterId, observation.cueId, observation.mark, note, observation.noteShared ? 1 : 0, createdAt, input.userId],
-        );
         const { id: _id, teamId: _team, ...fields } = observation;
-        const fieldHlc = await this.enqueue({ teamId: input.teamId, userId: input.userId, table: 'observations', recordId: observation.id, kind: 'upsert', fields, hlc });
-        await this.stampRow('observations', observation.id, fieldHlc);
+        // The row carries its clock values from the start (no second statement to stamp them).
+        const fieldHlc = Object.fromEntries(Object.keys(fields).map((field) => [field, hlc]));
+        await this.db.run(
+          `INSERT INTO observations (${OBSERVATION_COLUMNS}, hlc) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+          [observation.id, observation.teamId, observation.sessionId, skaterId, observation.cueId, observation.mark, note, observation.noteShared ? 1 : 0, createdAt, input.userId, JSON.stringify(fieldHlc)],
+        );
+        await this.enqueue({ teamId: input.teamId, userId: input.userId, table: 'observations', recordId: observation.id, kind: 'upsert', fields, hlc });
         created.push(observation);
       }
       return created;
@@ -758,6 +768,7 @@ export class DeviceStore {
    * repeat that answer.
    */
   async retryRejected(opId: string): Promise<void> {
+    this.sessionsQueued.clear();
     await this.tx(async () => {
       const { changes } = await this.db.run(
         `UPDATE outbox SET op_id = ?, status = 'pending', attempts = 0, last_error = NULL, reject_reason = NULL, sent_at = NULL
@@ -774,6 +785,7 @@ export class DeviceStore {
    * record again.
    */
   async discardRejected(opId: string): Promise<void> {
+    this.sessionsQueued.clear();
     await this.tx(async () => {
       const [row] = await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE op_id = ? AND status = 'rejected'`, [opId]);
       if (!row) throw new StoreError('That change is no longer waiting');
