@@ -121,9 +121,12 @@ export async function readPull(
   const viewer = coach ? [] : [caller.skaterId ?? '00000000-0000-0000-0000-000000000000'];
   const runner = dataSource.createQueryRunner('slave');
   await runner.connect();
+  let open = false;
   try {
-    await runner.startTransaction('REPEATABLE READ');
-    await runner.query('SET TRANSACTION READ ONLY');
+    // One statement opens the read-only snapshot every query of this page sees (a page is a hot
+    // path: each round trip to the database counts).
+    await runner.query('BEGIN ISOLATION LEVEL REPEATABLE READ, READ ONLY');
+    open = true;
     // Pull.1
     const [horizon] = (await runner.query(`SELECT horizon_seq FROM team_sync_horizons WHERE team_id = $1`, [teamId], true))
       .records as { horizon_seq: string }[];
@@ -145,7 +148,8 @@ export async function readPull(
     const n = complete
       ? 0
       : Number(((await runner.query(sql.remaining, [teamId, nextCursor, ...viewer], true)).records as { n: string }[])[0].n);
-    await runner.commitTransaction();
+    await runner.query('COMMIT');
+    open = false;
 
     const reply: PullReply = {
       changes: [],
@@ -163,7 +167,7 @@ export async function readPull(
     }
     return reply;
   } catch (error) {
-    if (runner.isTransactionActive) await runner.rollbackTransaction().catch(() => undefined);
+    if (open) await runner.query('ROLLBACK').catch(() => undefined);
     throw error;
   } finally {
     await runner.release();
