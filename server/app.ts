@@ -70,7 +70,17 @@ export function createApp(dataSource: DataSource) {
   const apiCompression = compression({ level: 1 });
   const fileCompression = compression();
   app.use((req, res, next) => (req.path.startsWith('/api/') ? apiCompression : fileCompression)(req, res, next));
-  app.use(pinoHttp({ logger, autoLogging: { ignore: (req) => !req.url?.startsWith('/api') } }));
+  // One short line per API request: method, path, status and time (no headers, no bodies).
+  app.use(
+    pinoHttp({
+      logger,
+      autoLogging: { ignore: (req) => !req.url?.startsWith('/api') },
+      serializers: {
+        req: (req: { id: unknown; method: string; url: string }) => ({ id: req.id, method: req.method, url: req.url.split('?')[0] }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
+    }),
+  );
   app.use('/api', express.json({ limit: config.JSON_BODY_LIMIT, strict: true }));
   app.use('/api', cookieParser());
 
