@@ -1,8 +1,6 @@
 /** Small wordings the board repeats: the day, a note's time, counts and lists of names. */
 import type { Mark } from '../../shared/schemas';
-import type { MarkKind } from '../ui';
-
-const pad = (n: number) => String(n).padStart(2, '0');
+import { clockTime, plural, type MarkKind } from '../ui';
 
 /** "Sat 14 Mar" from a session day (YYYY-MM-DD, the rink's local day). */
 export function formatDay(day: string): string {
@@ -14,12 +12,8 @@ export function formatDay(day: string): string {
 }
 
 /** Local HH:MM of an ISO timestamp. */
-export function formatTime(iso: string): string {
-  const date = new Date(iso);
-  return `${pad(date.getHours())}:${pad(date.getMinutes())}`;
-}
-
-export const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
+export const formatTime = clockTime;
+export { plural };
 
 /** "Anna", "Anna and Bram", "Anna, Bram and 3 more". */
 export function joinNames(names: string[]): string {

@@ -19,17 +19,9 @@ import {
   runSync,
   useSyncStatus,
 } from '../../store/sync-status';
-import { Banner, Button, Card, Heading, Text, colors, radius, spacing, tapTarget } from '../ui';
+import { Banner, Button, Card, Heading, Text, colors, lastSyncText, radius, spacing, tapTarget } from '../ui';
 
 const tableWords: Record<string, string> = { observations: 'note', sessions: 'session', cues: 'cue' };
-
-export function formatSyncTime(iso: string | null): string {
-  if (!iso) return 'Not synced yet on this device';
-  const at = new Date(iso);
-  const sameDay = at.toDateString() === new Date().toDateString();
-  const time = at.toLocaleTimeString(undefined, { hour: '2-digit', minute: '2-digit' });
-  return sameDay ? `Synced ${time}` : `Synced ${at.toLocaleDateString(undefined, { day: 'numeric', month: 'short' })} ${time}`;
-}
 
 function useRefetchDevice() {
   const client = useQueryClient();
@@ -40,7 +32,7 @@ function useRefetchDevice() {
 export function SyncSummary({ onOpen }: { onOpen: () => void }) {
   const status = useSyncStatus();
   const online = useConnectivity((s) => s.online);
-  let text = formatSyncTime(status.lastSyncAt);
+  let text = lastSyncText(status.lastSyncAt);
   if (status.running) {
     text = status.progress && status.progress.total > 0 ? `Syncing ${status.progress.done} of ${status.progress.total}` : 'Syncing…';
   } else if (!online) {
@@ -88,7 +80,7 @@ export function SyncPanel({ onClose }: { onClose: () => void }) {
         <Heading level={2}>Sync</Heading>
         <Button label="Close" variant="quiet" onPress={onClose} testID="sync-close" />
       </View>
-      <Text testID="sync-panel-last">{formatSyncTime(status.lastSyncAt)}</Text>
+      <Text testID="sync-panel-last">{lastSyncText(status.lastSyncAt)}</Text>
       <Text tone="muted" testID="sync-panel-pending">
         {status.pending === 1 ? '1 change waiting to be sent' : `${status.pending} changes waiting to be sent`}
       </Text>

@@ -1,9 +1,8 @@
 /** Wordings and pure helpers for the skater's page: day names, times, phase groups, the spoken script. */
 import { phaseLabels, phases, type Phase } from '../../shared/cues';
 import type { SkaterDay, SkaterNote } from '../../store/today';
-import { marks } from '../ui';
+import { clockTime, marks, pad2, plural } from '../ui';
 
-const pad = (n: number) => String(n).padStart(2, '0');
 
 const dateOf = (day: string) => {
   const [y, m, d] = day.split('-').map(Number);
@@ -14,7 +13,7 @@ const dateOf = (day: string) => {
 export function shiftDay(day: string, by: number): string {
   const date = dateOf(day);
   date.setDate(date.getDate() + by);
-  return `${date.getFullYear()}-${pad(date.getMonth() + 1)}-${pad(date.getDate())}`;
+  return `${date.getFullYear()}-${pad2(date.getMonth() + 1)}-${pad2(date.getDate())}`;
 }
 
 /** "Today", "Yesterday" or "Tue 1 Dec". */
@@ -34,12 +33,7 @@ export function longDay(day: string, today: string): string {
 }
 
 /** Local HH:MM of an ISO timestamp. */
-export function clockTime(iso: string): string {
-  const date = new Date(iso);
-  return `${pad(date.getHours())}:${pad(date.getMinutes())}`;
-}
-
-export const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
+export { clockTime, plural };
 
 /** The note text the skater may read: only a shared, non-empty note. */
 export const sharedNote = (n: SkaterNote) => (n.noteShared ? n.note.trim() : '');

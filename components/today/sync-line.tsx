@@ -5,15 +5,8 @@
 import { StyleSheet, View } from 'react-native';
 
 import { useSyncStatus } from '../../store/sync-status';
-import { Button, OfflineBadge, Text, spacing } from '../ui';
-import { clockTime, plural } from './format';
-
-export function lastSyncText(iso: string | null, now = new Date()): string {
-  if (!iso) return 'Not synced on this device yet';
-  const at = new Date(iso);
-  if (at.toDateString() === now.toDateString()) return `Last synced ${clockTime(iso)}`;
-  return `Last synced ${at.getDate()} ${at.toLocaleDateString('en-GB', { month: 'short' })} ${clockTime(iso)}`;
-}
+import { Button, OfflineBadge, Text, lastSyncText, spacing } from '../ui';
+import { plural } from './format';
 
 export interface SyncLineProps {
   offline: boolean;
@@ -29,7 +22,7 @@ export function SyncLine({ offline, onRefresh }: SyncLineProps) {
           <OfflineBadge large testID="today-offline" accessibilityLabel="Offline: your cues are kept on this device" />
         ) : null}
         <Text tone="muted" testID="today-last-sync" style={styles.grow}>
-          {running ? 'Syncing…' : lastSyncText(lastSyncAt)}
+          {running ? 'Syncing…' : lastSyncText(lastSyncAt, 'Last synced')}
         </Text>
         <Button
           label="Refresh"

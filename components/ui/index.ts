@@ -15,3 +15,4 @@ export * from './text-link';
 export * from './placeholder-panel';
 export * from './toggle-row';
 export * from './offline-badge';
+export * from './format';
