@@ -24,6 +24,7 @@ import { Client } from 'pg';
 import { v7 as uuidv7 } from 'uuid';
 import { HybridClock } from '../shared/hlc';
 import { SYNC_PULL_MAX_LIMIT, SYNC_PUSH_MAX_OPS, type Op, type PullReply, type PushReply } from '../shared/schemas/sync';
+import { OBSERVATION_UPSERT } from '../server/services/sync/push';
 
 const BASE = process.env.BENCH_BASE_URL ?? 'http://127.0.0.1:8434';
 const DATABASE_URL = process.env.DATABASE_URL;
@@ -169,16 +170,8 @@ const batches = <T>(items: T[], size: number) =>
 
 // ---- raw PostgreSQL ---------------------------------------------------------------------------
 
-const RAW_UPSERT = `
-  INSERT INTO observations (team_id, id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by,
-                            acknowledged_at, field_hlc, server_seq, deleted_at, deleted_hlc)
-  SELECT $1, * FROM unnest($2::uuid[], $3::uuid[], $4::uuid[], $5::uuid[], $6::text[], $7::text[], $8::bool[],
-                           $9::timestamptz[], $10::uuid[], $11::timestamptz[], $12::jsonb[], $13::bigint[],
-                           $14::timestamptz[], $15::text[])
-  ON CONFLICT (team_id, id) DO UPDATE SET
-    mark = excluded.mark, note = excluded.note, note_shared = excluded.note_shared,
-    acknowledged_at = excluded.acknowledged_at, field_hlc = excluded.field_hlc, server_seq = excluded.server_seq,
-    deleted_at = excluded.deleted_at, deleted_hlc = excluded.deleted_hlc`;
+/** The very statement the push endpoint writes observations with. */
+const RAW_UPSERT = OBSERVATION_UPSERT;
 
 async function rawUpsert(db: Client, team: Team, rows: Observation[]): Promise<Measured> {
   let seq = 1_000_000;

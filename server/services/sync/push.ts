@@ -382,18 +382,25 @@ async function inChunks(items: Stamped[], write: (chunk: Stamped[]) => Promise<u
 
 const col = <T>(chunk: Stamped[], pick: (r: RecordState) => T) => chunk.map((s) => pick(s.record));
 
+/**
+ * The bulk upsert of observations (one array per column). Exported so the benchmark's raw
+ * baseline runs exactly this statement without the endpoint around it.
+ */
+export const OBSERVATION_UPSERT = `
+  INSERT INTO observations (team_id, id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by,
+                            acknowledged_at, field_hlc, server_seq, deleted_at, deleted_hlc)
+  SELECT $1, * FROM unnest($2::uuid[], $3::uuid[], $4::uuid[], $5::uuid[], $6::text[], $7::text[], $8::bool[],
+                           $9::timestamptz[], $10::uuid[], $11::timestamptz[], $12::jsonb[], $13::bigint[],
+                           $14::timestamptz[], $15::text[])
+  ON CONFLICT (team_id, id) DO UPDATE SET
+    mark = excluded.mark, note = excluded.note, note_shared = excluded.note_shared,
+    acknowledged_at = excluded.acknowledged_at, field_hlc = excluded.field_hlc, server_seq = excluded.server_seq,
+    deleted_at = excluded.deleted_at, deleted_hlc = excluded.deleted_hlc`;
+
 function writeObservations(runner: QueryRunner, teamId: string, items: Stamped[]) {
   return inChunks(items, (chunk) =>
     runner.query(
-      `INSERT INTO observations (team_id, id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by,
-                                 acknowledged_at, field_hlc, server_seq, deleted_at, deleted_hlc)
-       SELECT $1, * FROM unnest($2::uuid[], $3::uuid[], $4::uuid[], $5::uuid[], $6::text[], $7::text[], $8::bool[],
-                                $9::timestamptz[], $10::uuid[], $11::timestamptz[], $12::jsonb[], $13::bigint[],
-                                $14::timestamptz[], $15::text[])
-       ON CONFLICT (team_id, id) DO UPDATE SET
-         mark = excluded.mark, note = excluded.note, note_shared = excluded.note_shared,
-         acknowledged_at = excluded.acknowledged_at, field_hlc = excluded.field_hlc, server_seq = excluded.server_seq,
-         deleted_at = excluded.deleted_at, deleted_hlc = excluded.deleted_hlc`,
+      OBSERVATION_UPSERT,
       [
         teamId,
         col(chunk, (r) => r.id),
