@@ -25,7 +25,11 @@ export function createApp(dataSource: DataSource) {
   const config = env();
   const app = express();
   app.disable('x-powered-by');
-  app.set('trust proxy', 'loopback');
+  // X-Forwarded-For names the client only behind a configured proxy (TRUST_PROXY); otherwise
+  // anyone could forge a fresh address per request and escape the per-address limits.
+  app.set('trust proxy', config.TRUST_PROXY);
+  // requireUser (lib/auth.ts) checks each access token's sign-in here.
+  app.locals.dataSource = dataSource;
 
   app.use(
     helmet({

@@ -74,6 +74,15 @@ export class RefreshToken {
   @Column({ type: 'timestamptz', nullable: true }) revokedAt: Date | null;
 }
 
+/** One sign-in: its refresh tokens rotate within it, and its access tokens name it (`sid`). */
+@Entity('token_families')
+export class TokenFamily {
+  @PrimaryColumn({ type: 'uuid' }) id: string;
+  @Column({ type: 'uuid' }) userId: string;
+  @Column({ type: 'timestamptz', insert: false, update: false }) createdAt: Date;
+  @Column({ type: 'timestamptz', nullable: true }) revokedAt: Date | null;
+}
+
 @Entity('password_resets')
 export class PasswordReset {
   @PrimaryColumn({ type: 'uuid' }) id: string;
@@ -83,4 +92,4 @@ export class PasswordReset {
   @Column({ type: 'timestamptz', nullable: true }) usedAt: Date | null;
 }
 
-export const entities = [Team, User, SkaterGroup, Skater, Membership, Invitation, RefreshToken, PasswordReset];
+export const entities = [Team, User, SkaterGroup, Skater, Membership, Invitation, RefreshToken, TokenFamily, PasswordReset];

@@ -1,17 +1,26 @@
 /**
- * Access tokens (short-lived JWTs, HS256 pinned, issuer and audience checked) and the opaque
- * random tokens used for refresh cookies and e-mailed links (stored only as SHA-256 hashes).
+ * Access tokens (short-lived JWTs, HS256 pinned, issuer, audience and expiry required) and the
+ * opaque random tokens used for refresh cookies and e-mailed links (stored only as SHA-256
+ * hashes). An access token names its sign-in (`sid`, the refresh-token family), so signing out,
+ * a password reset or a replayed refresh token ends it before it expires (see lib/auth.ts).
  */
 import { createHash, randomBytes } from 'node:crypto';
 import jwt from 'jsonwebtoken';
+import { z } from 'zod';
 import { env } from '../env';
 import { unauthorized } from './errors';
 
 const ALGORITHM = 'HS256' as const;
 
-export function signAccessToken(userId: string): { token: string; expiresIn: number } {
+export interface AccessClaims {
+  userId: string;
+  /** The sign-in (refresh-token family) the token was issued for. */
+  familyId: string;
+}
+
+export function signAccessToken(userId: string, familyId: string): { token: string; expiresIn: number } {
   const { JWT_SECRET, JWT_ISSUER, JWT_AUDIENCE, ACCESS_TOKEN_TTL_SECONDS } = env();
-  const token = jwt.sign({}, JWT_SECRET, {
+  const token = jwt.sign({ sid: familyId }, JWT_SECRET, {
     algorithm: ALGORITHM,
     subject: userId,
     issuer: JWT_ISSUER,
@@ -21,21 +30,27 @@ export function signAccessToken(userId: string): { token: string; expiresIn: num
   return { token, expiresIn: ACCESS_TOKEN_TTL_SECONDS };
 }
 
-/** Returns the user id of a valid access token, or throws 401 (expired, tampered, wrong audience, alg none...). */
-export function verifyAccessToken(token: string): string {
+// Both ids reach SQL as uuid parameters: anything else must be a 401 here, not a cast error later.
+const claimsSchema = z.object({ sub: z.uuid(), sid: z.uuid(), exp: z.number() });
+
+/** The claims of a valid access token, or 401 (expired, no expiry, tampered, wrong audience, alg none...). */
+export function verifyAccessToken(token: string): AccessClaims {
   const { JWT_SECRET, JWT_ISSUER, JWT_AUDIENCE } = env();
+  let payload: string | jwt.JwtPayload;
   try {
-    const payload = jwt.verify(token, JWT_SECRET, {
+    payload = jwt.verify(token, JWT_SECRET, {
       algorithms: [ALGORITHM],
       issuer: JWT_ISSUER,
       audience: JWT_AUDIENCE,
     });
-    if (typeof payload === 'string' || typeof payload.sub !== 'string') throw new Error('no subject');
-    return payload.sub;
   } catch (error) {
     const expired = error instanceof jwt.TokenExpiredError;
     throw unauthorized(expired ? 'Your session has expired: sign in again' : 'Invalid access token');
   }
+  // jsonwebtoken checks `exp` only when it is present: a token without one would never expire.
+  const claims = claimsSchema.safeParse(payload);
+  if (!claims.success) throw unauthorized('Invalid access token');
+  return { userId: claims.data.sub, familyId: claims.data.sid };
 }
 
 /** A URL-safe random token (256 bits) for cookies and e-mailed links. */

@@ -13,19 +13,24 @@ import {
   signUpSchema,
 } from '../../shared/schemas';
 import { env } from '../env';
-import { requireUser } from '../lib/auth';
+import { bearerClaims, requireUser } from '../lib/auth';
 import { HttpError, parse } from '../lib/errors';
+import { tooMany } from '../lib/rate-limit';
+import type { AccessClaims } from '../lib/tokens';
 import { confirmPasswordReset, requestPasswordReset, signIn, signUp } from '../services/accounts';
-import { membershipsOf, revokeByToken, rotateSession, type IssuedSession } from '../services/sessions';
+import { membershipsOf, revokeByToken, revokeFamily, rotateSession, type IssuedSession } from '../services/sessions';
 import { User } from '../entities';
 
 export const REFRESH_COOKIE = 'boardside_refresh';
 const COOKIE_PATH = '/api/auth';
 
-function tooMany(message: string) {
-  return (_req: Request, _res: Response) => {
-    throw new HttpError(429, 'rate_limited', message);
-  };
+/** The bearer token's claims, or nothing when it is not valid (sign-out then relies on the cookie). */
+function validBearerOrNothing(req: Request): AccessClaims | undefined {
+  try {
+    return bearerClaims(req);
+  } catch {
+    return undefined;
+  }
 }
 
 export function sendSession(res: Response, issued: IssuedSession, status = 200) {
@@ -52,7 +57,9 @@ export function authRoutes(dataSource: DataSource) {
     legacyHeaders: false,
     handler: tooMany('Too many attempts from this address: wait a few minutes and try again'),
   });
-  // Per account: failed sign-ins against one e-mail, whatever address they come from.
+  // Per (account, address): failed sign-ins against one e-mail from one address. Keyed by the
+  // pair, so a stranger typing wrong passwords throttles only themselves, never the coach signing
+  // in from elsewhere; guessing from many addresses still meets the per-address limit on each.
   const perAccount = rateLimit({
     windowMs,
     limit: config.LOGIN_LIMIT_PER_ACCOUNT,
@@ -61,9 +68,9 @@ export function authRoutes(dataSource: DataSource) {
     skipSuccessfulRequests: true,
     keyGenerator: (req) => {
       const email = typeof req.body?.email === 'string' ? req.body.email.trim().toLowerCase() : '';
-      return email ? `account:${email}` : `ip:${ipKeyGenerator(req.ip ?? '')}`;
+      return `account:${email}|ip:${ipKeyGenerator(req.ip ?? '')}`;
     },
-    handler: tooMany('Too many failed sign-ins for this account: wait a few minutes and try again'),
+    handler: tooMany('Too many failed sign-ins for this account from this address: wait a few minutes and try again'),
   });
 
   router.post('/auth/sign-up', perIp, async (req, res) => {
@@ -85,8 +92,12 @@ export function authRoutes(dataSource: DataSource) {
     }
   });
 
+  // Ends the sign-in named by the refresh cookie and the one named by a valid access token (a
+  // client without the cookie still ends its own sign-in). Neither is required: the answer is 204.
   router.post('/auth/sign-out', async (req, res) => {
     await revokeByToken(dataSource, req.cookies?.[REFRESH_COOKIE]);
+    const claims = req.get('authorization') ? validBearerOrNothing(req) : undefined;
+    if (claims) await revokeFamily(dataSource, claims.familyId, claims.userId);
     res.clearCookie(REFRESH_COOKIE, { path: COOKIE_PATH }).status(204).end();
   });
 

@@ -9,6 +9,7 @@ import type { DataSource } from 'typeorm';
 import { pullQuerySchema, pushBodySchema } from '../../shared/schemas/sync';
 import { requireUser } from '../lib/auth';
 import { forbidden, HttpError, notFound, parse } from '../lib/errors';
+import { syncLimit } from '../lib/rate-limit';
 import { Membership } from '../entities';
 import { readPull } from '../services/sync/pull';
 import { applyPush, type Caller } from '../services/sync/push';
@@ -33,6 +34,7 @@ async function claimClient(dataSource: DataSource, clientId: string, userId: str
 export function syncRoutes(dataSource: DataSource) {
   const router = Router();
   router.use('/sync', requireUser);
+  router.use('/sync', syncLimit());
 
   router.post('/sync/push', async (req, res) => {
     const body = parse(pushBodySchema, req.body);

@@ -1,7 +1,9 @@
 /**
  * Sign-in sessions: a short-lived access token plus a refresh token that rotates on every use.
- * Refresh tokens are random, stored only as hashes, and grouped in families; presenting a token
- * that was already used (or revoked) revokes its whole family, which ends a stolen copy's life too.
+ * Refresh tokens are random, stored only as hashes, and grouped in families (one per sign-in, a
+ * `token_families` row); presenting a token that was already used (or revoked) revokes its whole
+ * family, which ends a stolen copy's life too. Access tokens name their family, and a revoked
+ * family's access tokens are refused at once (lib/auth.ts), not only when they expire.
  */
 import type { DataSource, EntityManager } from 'typeorm';
 import { v7 as uuidv7 } from 'uuid';
@@ -9,7 +11,7 @@ import type { Membership as MembershipDto, Session } from '../../shared/schemas'
 import { env } from '../env';
 import { unauthorized } from '../lib/errors';
 import { hashToken, randomToken, signAccessToken } from '../lib/tokens';
-import { RefreshToken, User } from '../entities';
+import { RefreshToken, TokenFamily, User } from '../entities';
 
 export interface IssuedSession {
   session: Session;
@@ -29,12 +31,14 @@ export async function membershipsOf(db: DataSource | EntityManager, userId: stri
   return rows.map((r) => ({ teamId: r.team_id, teamName: r.team_name, role: r.role, skaterId: r.skater_id }));
 }
 
-/** Starts a new refresh-token family (or continues `familyId`) and builds the session answer. */
+/** Starts a new sign-in (refresh-token family), or continues `familyId`, and builds the session answer. */
 export async function issueSession(
   db: DataSource | EntityManager,
   user: User,
-  familyId: string = uuidv7(),
+  continuing?: string,
 ): Promise<IssuedSession> {
+  const familyId = continuing ?? uuidv7();
+  if (!continuing) await db.getRepository(TokenFamily).insert({ id: familyId, userId: user.id });
   const refreshToken = randomToken();
   const refreshExpiresAt = new Date(Date.now() + env().REFRESH_TOKEN_TTL_DAYS * 86_400_000);
   await db.getRepository(RefreshToken).insert({
@@ -44,7 +48,7 @@ export async function issueSession(
     tokenHash: hashToken(refreshToken),
     expiresAt: refreshExpiresAt,
   });
-  const access = signAccessToken(user.id);
+  const access = signAccessToken(user.id, familyId);
   return {
     refreshToken,
     refreshExpiresAt,
@@ -68,6 +72,13 @@ export async function rotateSession(dataSource: DataSource, presented: string | 
   }
   if (row.expiresAt.getTime() <= Date.now()) throw unauthorized('Your session has expired: sign in again');
   const issued = await dataSource.transaction(async (tx) => {
+    // Lock the sign-in: a sign-out or reset running now either ends it before this (and the
+    // refresh is refused) or waits and then revokes the token issued here too.
+    const live: unknown[] = await tx.query(
+      `SELECT 1 FROM token_families WHERE id = $1 AND revoked_at IS NULL FOR UPDATE`,
+      [row.familyId],
+    );
+    if (live.length === 0) return undefined;
     // Claim the token atomically: of two concurrent uses only one can win; the other is a reuse.
     const [, claimed]: [unknown[], number] = await tx.query(
       `UPDATE refresh_tokens SET used_at = now() WHERE id = $1 AND used_at IS NULL AND revoked_at IS NULL RETURNING id`,
@@ -84,7 +95,11 @@ export async function rotateSession(dataSource: DataSource, presented: string | 
   return issued;
 }
 
-async function revokeFamilyIn(db: EntityManager, familyId: string) {
+/** Ends a sign-in: its access tokens are refused from now on, its refresh tokens too. */
+async function revokeFamilyIn(db: DataSource | EntityManager, familyId: string) {
+  // The family row first: it is what access tokens are checked against, and its lock orders this
+  // after a refresh in flight, whose new token the second statement then sees.
+  await db.query(`UPDATE token_families SET revoked_at = now() WHERE id = $1 AND revoked_at IS NULL`, [familyId]);
   await db.query(`UPDATE refresh_tokens SET revoked_at = now() WHERE family_id = $1 AND revoked_at IS NULL`, [familyId]);
 }
 
@@ -94,6 +109,14 @@ export async function revokeByToken(dataSource: DataSource, presented: string | 
   if (row) await revokeFamilyIn(dataSource.manager, row.familyId);
 }
 
+/** Ends the sign-in an access token belongs to (sign-out without the refresh cookie). */
+export async function revokeFamily(dataSource: DataSource, familyId: string, userId: string) {
+  const family = await dataSource.getRepository(TokenFamily).findOneBy({ id: familyId, userId });
+  if (family) await revokeFamilyIn(dataSource, family.id);
+}
+
+/** Ends every sign-in of a user (password reset). */
 export async function revokeAllForUser(db: DataSource | EntityManager, userId: string) {
+  await db.query(`UPDATE token_families SET revoked_at = now() WHERE user_id = $1 AND revoked_at IS NULL`, [userId]);
   await db.query(`UPDATE refresh_tokens SET revoked_at = now() WHERE user_id = $1 AND revoked_at IS NULL`, [userId]);
 }

@@ -15,3 +15,5 @@ process.env.PUBLIC_URL ??= 'http://127.0.0.1:8431';
 // Each test file signs up many accounts from one address; rate-limit.test.ts sets its own limits.
 process.env.LOGIN_LIMIT_PER_IP ??= '10000';
 process.env.LOGIN_LIMIT_PER_ACCOUNT ??= '10000';
+// The sync tests push and pull far faster than a device; rate-limit-sync.test.ts sets its own.
+process.env.SYNC_LIMIT_PER_USER ??= '1000000';

@@ -1,6 +1,8 @@
 /**
  * Access tokens that must not work (expired, tampered, wrong audience or issuer, wrong
  * algorithm, `alg: none`, unknown subject) and refresh-token reuse, which revokes the family.
+ * Every token made here names the coach's live sign-in (`sid`), so only the flaw under test can
+ * be the reason for a refusal.
  */
 import jwt from 'jsonwebtoken';
 import request from 'supertest';
@@ -22,17 +24,19 @@ afterAll(async () => {
 });
 
 const me = (token: string) => request(server.app).get('/api/me').set('Authorization', `Bearer ${token}`);
+/** The coach's sign-in, as the server put it in their access token. */
+const sid = () => (jwt.decode(coach.session.accessToken) as { sid: string }).sid;
 const b64url = (value: object) => Buffer.from(JSON.stringify(value)).toString('base64url');
 
 describe('access tokens', () => {
   it('accepts a token signed like the server signs them (the control case)', async () => {
-    const token = jwt.sign({}, secret(), { algorithm: 'HS256', subject: coach.session.user.id, issuer, audience, expiresIn: 60 });
+    const token = jwt.sign({ sid: sid() }, secret(), { algorithm: 'HS256', subject: coach.session.user.id, issuer, audience, expiresIn: 60 });
     const res = await me(token).expect(200);
     expect(res.body.user.id).toBe(coach.session.user.id);
   });
 
   it('refuses an expired token with 401 and says the session expired', async () => {
-    const token = jwt.sign({}, secret(), { algorithm: 'HS256', subject: coach.session.user.id, issuer, audience, expiresIn: -10 });
+    const token = jwt.sign({ sid: sid() }, secret(), { algorithm: 'HS256', subject: coach.session.user.id, issuer, audience, expiresIn: -10 });
     const res = await me(token);
     expectError(res, 401, 'unauthorized');
     expect(res.body.error.message).toMatch(/expired/i);
@@ -60,48 +64,48 @@ describe('access tokens', () => {
     ['no audience', { issuer }],
     ['no issuer', { audience }],
   ])('refuses a token with %s', async (_label, claims) => {
-    const token = jwt.sign({}, secret(), { algorithm: 'HS256', subject: coach.session.user.id, expiresIn: 60, ...claims });
+    const token = jwt.sign({ sid: sid() }, secret(), { algorithm: 'HS256', subject: coach.session.user.id, expiresIn: 60, ...claims });
     expectError(await me(token), 401, 'unauthorized');
   });
 
   it('refuses a token signed with another secret', async () => {
-    const token = jwt.sign({}, 'a-different-secret-that-is-also-long-enough', {
+    const token = jwt.sign({ sid: sid() }, 'a-different-secret-that-is-also-long-enough', {
       algorithm: 'HS256', subject: coach.session.user.id, issuer, audience, expiresIn: 60,
     });
     expectError(await me(token), 401, 'unauthorized');
   });
 
   it('refuses HS512 even with the right secret (the algorithm is pinned)', async () => {
-    const token = jwt.sign({}, secret(), { algorithm: 'HS512', subject: coach.session.user.id, issuer, audience, expiresIn: 60 });
+    const token = jwt.sign({ sid: sid() }, secret(), { algorithm: 'HS512', subject: coach.session.user.id, issuer, audience, expiresIn: 60 });
     expectError(await me(token), 401, 'unauthorized');
   });
 
   it.each(['none', 'None', 'NONE'])('refuses an unsigned token with alg: %s', async (alg) => {
     const now = Math.floor(Date.now() / 1000);
     const header = b64url({ alg, typ: 'JWT' });
-    const payload = b64url({ sub: coach.session.user.id, iss: issuer, aud: audience, iat: now, exp: now + 600 });
+    const payload = b64url({ sub: coach.session.user.id, sid: sid(), iss: issuer, aud: audience, iat: now, exp: now + 600 });
     expectError(await me(`${header}.${payload}.`), 401, 'unauthorized');
   });
 
   it('refuses a token without a subject', async () => {
-    const token = jwt.sign({}, secret(), { algorithm: 'HS256', issuer, audience, expiresIn: 60 });
+    const token = jwt.sign({ sid: sid() }, secret(), { algorithm: 'HS256', issuer, audience, expiresIn: 60 });
     expectError(await me(token), 401, 'unauthorized');
   });
 
   it('refuses a well-signed token for a user that does not exist', async () => {
-    const token = jwt.sign({}, secret(), { algorithm: 'HS256', subject: uuidv7(), issuer, audience, expiresIn: 60 });
+    const token = jwt.sign({ sid: sid() }, secret(), { algorithm: 'HS256', subject: uuidv7(), issuer, audience, expiresIn: 60 });
     expectError(await me(token), 401, 'unauthorized');
   });
 
   it('refuses a token that is not valid yet (nbf in the future)', async () => {
-    const token = jwt.sign({}, secret(), {
+    const token = jwt.sign({ sid: sid() }, secret(), {
       algorithm: 'HS256', subject: coach.session.user.id, issuer, audience, expiresIn: 600, notBefore: 300,
     });
     expectError(await me(token), 401, 'unauthorized');
   });
 
   it('refuses an expired token on team routes too', async () => {
-    const token = jwt.sign({}, secret(), { algorithm: 'HS256', subject: coach.session.user.id, issuer, audience, expiresIn: -10 });
+    const token = jwt.sign({ sid: sid() }, secret(), { algorithm: 'HS256', subject: coach.session.user.id, issuer, audience, expiresIn: -10 });
     expectError(
       await request(server.app).get(`/api/teams/${coach.teamId}/squad`).set('Authorization', `Bearer ${token}`),
       401,
