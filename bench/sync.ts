@@ -24,7 +24,7 @@ import { Client } from 'pg';
 import { v7 as uuidv7 } from 'uuid';
 import { HybridClock } from '../shared/hlc';
 import { SYNC_PULL_MAX_LIMIT, SYNC_PUSH_MAX_OPS, type Op, type PullReply, type PushReply } from '../shared/schemas/sync';
-import { OBSERVATION_UPSERT } from '../server/services/sync/push';
+import { upsertSql } from '../server/services/sync/write';
 
 const BASE = process.env.BENCH_BASE_URL ?? 'http://127.0.0.1:8434';
 const DATABASE_URL = process.env.DATABASE_URL;
@@ -171,7 +171,7 @@ const batches = <T>(items: T[], size: number) =>
 // ---- raw PostgreSQL ---------------------------------------------------------------------------
 
 /** The very statement the push endpoint writes observations with. */
-const RAW_UPSERT = OBSERVATION_UPSERT;
+const RAW_UPSERT = upsertSql('observations');
 
 async function rawUpsert(db: Client, team: Team, rows: Observation[]): Promise<Measured> {
   let seq = 1_000_000;

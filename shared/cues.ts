@@ -4,6 +4,7 @@
  * rename, reorder and archive cues; archived cues keep their history.
  */
 import { z } from 'zod';
+import { isSafeText } from './schemas/values';
 
 export const phases = ['start', 'opening', 'straight', 'curve', 'exit', 'pacing'] as const;
 export const phaseSchema = z.enum(phases, { error: `Phase must be one of: ${phases.join(', ')}` });
@@ -24,7 +25,8 @@ export const cueLabelSchema = z
   .string({ error: 'Cue text is required' })
   .trim()
   .min(2, 'Cue text must be at least 2 characters')
-  .max(CUE_LABEL_MAX, `Cue text must be at most ${CUE_LABEL_MAX} characters`);
+  .max(CUE_LABEL_MAX, `Cue text must be at most ${CUE_LABEL_MAX} characters`)
+  .refine(isSafeText, { error: 'Cue text cannot hold control characters or broken Unicode' });
 
 export const defaultCues: Record<Phase, string[]> = {
   start: ['Sit lower in the set', 'Weight over the front blade', 'Still at "ready"', 'Explode on the gun', 'Arms drive the first steps'],

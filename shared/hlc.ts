@@ -13,7 +13,10 @@ export interface HlcParts {
 
 const WALL_DIGITS = 15;
 const COUNTER_DIGITS = 6;
-const MAX_COUNTER = 10 ** COUNTER_DIGITS - 1;
+export const MAX_HLC_COUNTER = 10 ** COUNTER_DIGITS - 1;
+const MAX_COUNTER = MAX_HLC_COUNTER;
+/** The largest wall time a clock value may carry (year 10,000 and beyond is nobody's clock). */
+export const MAX_HLC_WALL = 253_402_300_799_999;
 
 export function encodeHlc({ wall, counter, node }: HlcParts): string {
   if (!Number.isSafeInteger(wall) || wall < 0) throw new RangeError(`HLC wall time out of range: ${wall}`);
@@ -52,6 +55,7 @@ export class HybridClock {
     } else {
       this.counter += 1;
     }
+    this.carry();
     return this.current();
   }
 
@@ -65,7 +69,19 @@ export class HybridClock {
     else if (wall === r.wall) this.counter = r.counter + 1;
     else this.counter = 0;
     this.wall = wall;
+    this.carry();
     return this.current();
+  }
+
+  /**
+   * A counter past its largest value moves the clock one millisecond on instead of failing: a
+   * value with the largest counter (from anywhere) must never leave a clock that cannot tick.
+   */
+  private carry(): void {
+    if (this.counter > MAX_COUNTER) {
+      this.wall += 1;
+      this.counter = 0;
+    }
   }
 
   current(): string {

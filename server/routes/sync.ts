@@ -12,7 +12,8 @@ import { forbidden, HttpError, notFound, parse } from '../lib/errors';
 import { syncLimit } from '../lib/rate-limit';
 import { Membership } from '../entities';
 import { readPull } from '../services/sync/pull';
-import { applyPush, type Caller } from '../services/sync/push';
+import { applyPush } from '../services/sync/push';
+import type { Caller } from '../services/sync/settle';
 
 async function callerIn(dataSource: DataSource, teamId: string, userId: string): Promise<Caller> {
   const membership = await dataSource.getRepository(Membership).findOneBy({ teamId, userId });

@@ -28,9 +28,9 @@ export async function insertDefaultCues(db: DataSource | EntityManager, teamId: 
 }
 
 export async function listCues(db: DataSource, teamId: string): Promise<Cue[]> {
-  const rows: { id: string; phase: Cue['phase']; label: string; sort_order: number; archived_at: Date | null }[] =
+  const rows: { id: string; phase: Cue['phase']; label: string; sort_order: number; archived: boolean }[] =
     await db.query(
-      `SELECT id, phase, label, sort_order, archived_at FROM cues WHERE team_id = $1 AND deleted_at IS NULL ORDER BY phase, sort_order, label`,
+      `SELECT id, phase, label, sort_order, archived FROM cues WHERE team_id = $1 AND deleted_at IS NULL ORDER BY phase, sort_order, label`,
       [teamId],
     );
   return rows.map((r) => ({
@@ -38,6 +38,6 @@ export async function listCues(db: DataSource, teamId: string): Promise<Cue[]> {
     phase: r.phase,
     label: r.label,
     sortOrder: r.sort_order,
-    archived: r.archived_at !== null,
+    archived: r.archived,
   }));
 }

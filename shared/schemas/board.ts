@@ -1,17 +1,19 @@
 /** Schemas for what the board records: sessions and observations (a cue seen on a skater). */
 import { z } from 'zod';
+import { calendarDaySchema, isSafeText } from './values';
 
 export const markSchema = z.enum(['needs_work', 'good'], { error: 'Mark must be needs_work or good' });
 export type Mark = z.infer<typeof markSchema>;
 
 export const NOTE_MAX = 280;
 export const noteSchema = z
-  .string()
+  .string({ error: 'A note must be text' })
   .trim()
-  .max(NOTE_MAX, `A note can be at most ${NOTE_MAX} characters`);
+  .max(NOTE_MAX, `A note can be at most ${NOTE_MAX} characters`)
+  .refine(isSafeText, { error: 'A note cannot hold control characters or broken Unicode' });
 
 /** ISO calendar date (YYYY-MM-DD), the local day of the session at the rink. */
-export const daySchema = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'Day must be YYYY-MM-DD');
+export const daySchema = calendarDaySchema;
 
 export const boardSessionSchema = z.object({
   id: z.uuid(),

@@ -13,13 +13,14 @@ export type ApiError = z.infer<typeof apiErrorSchema>;
 
 /** Turns zod issues into one readable sentence and a per-field map (first message per field). */
 export function describeIssues(issues: readonly { path: PropertyKey[]; message: string }[]) {
-  const fields: Record<string, string> = {};
+  // A Map, not a plain object: a field named "constructor" or "__proto__" is a field like any other.
+  const byField = new Map<string, string>();
   for (const issue of issues) {
     const key = issue.path.map(String).join('.') || '_';
-    if (!(key in fields)) fields[key] = issue.message;
+    if (!byField.has(key)) byField.set(key, issue.message);
   }
-  const message = Object.entries(fields)
+  const message = [...byField]
     .map(([key, text]) => (key === '_' ? text : `${key}: ${text}`))
     .join('; ');
-  return { message, fields };
+  return { message, fields: Object.fromEntries(byField) as Record<string, string> };
 }

@@ -4,3 +4,4 @@ export * from './errors';
 export * from './cues';
 export * from './board';
 export * from './sync';
+export * from './values';

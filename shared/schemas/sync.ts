@@ -5,6 +5,7 @@
  */
 import { z } from 'zod';
 import { isHlc } from '../hlc';
+import { pushableTables, syncTableNames, type SyncTableName } from '../sync-tables';
 
 export const SYNC_PUSH_MAX_OPS = 500;
 export const SYNC_PULL_MAX_LIMIT = 1000;
@@ -12,12 +13,14 @@ export const SYNC_PULL_MAX_LIMIT = 1000;
 export const TOMBSTONE_RETENTION_DAYS = 180;
 
 /** Tables the device may change through push. Skaters and groups only flow down (pull). */
-export const pushTables = ['observations', 'sessions', 'cues'] as const;
-export const pushTableSchema = z.enum(pushTables, { error: `table must be one of: ${pushTables.join(', ')}` });
-export type PushTable = z.infer<typeof pushTableSchema>;
+export const pushTables = pushableTables;
+export const pushTableSchema = z.enum(pushTables as [SyncTableName, ...SyncTableName[]], {
+  error: `table must be one of: ${pushTables.join(', ')}`,
+});
+export type PushTable = SyncTableName;
 
-export const pullTables = ['observations', 'sessions', 'cues', 'skaters', 'groups'] as const;
-export type PullTable = (typeof pullTables)[number];
+export const pullTables = syncTableNames;
+export type PullTable = SyncTableName;
 
 export const hlcSchema = z.string().refine(isHlc, { error: 'not a clock value (wall-counter-node)' }).max(120);
 
@@ -47,8 +50,11 @@ export type PushBody = z.infer<typeof pushBodySchema>;
 export const opResultSchema = z.object({
   opId: z.uuid(),
   status: z.enum(['applied', 'duplicate', 'rejected']),
-  /** For rejected ops: validation | permission | unknown_record, and a sentence for the coach. */
-  reason: z.enum(['validation', 'permission', 'unknown_record']).optional(),
+  /**
+   * For rejected ops, with a sentence for the coach: validation (a value, a clock value or the
+   * database refused it), permission, unknown_record, or conflict (the op id is another user's).
+   */
+  reason: z.enum(['validation', 'permission', 'unknown_record', 'conflict']).optional(),
   message: z.string().optional(),
 });
 export type OpResult = z.infer<typeof opResultSchema>;
@@ -62,21 +68,21 @@ export const pushReplySchema = z.object({
 export type PushReply = z.infer<typeof pushReplySchema>;
 
 export const changeSchema = z.object({
-  table: z.enum(pullTables),
+  table: z.enum(pullTables as [SyncTableName, ...SyncTableName[]]),
   id: z.uuid(),
   serverSeq: z.number().int(),
   fields: z.record(z.string(), z.unknown()),
 });
 export type Change = z.infer<typeof changeSchema>;
 
-export const tombstoneSchema = z.object({ table: z.enum(pullTables), id: z.uuid(), serverSeq: z.number().int() });
+export const tombstoneSchema = z.object({ table: z.enum(pullTables as [SyncTableName, ...SyncTableName[]]), id: z.uuid(), serverSeq: z.number().int() });
 export type Tombstone = z.infer<typeof tombstoneSchema>;
 
 export const pullReplySchema = z.object({
   changes: z.array(changeSchema),
   tombstones: z.array(tombstoneSchema),
   /** Records this caller may no longer see (e.g. a note made private): remove them locally. */
-  evictions: z.array(z.object({ table: z.enum(pullTables), id: z.uuid() })),
+  evictions: z.array(z.object({ table: z.enum(pullTables as [SyncTableName, ...SyncTableName[]]), id: z.uuid() })),
   nextCursor: z.number().int(),
   hasMore: z.boolean(),
   remaining: z.number().int(),

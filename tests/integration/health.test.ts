@@ -13,7 +13,7 @@ afterAll(async () => {
 describe('GET /api/health', () => {
   it('is 200 with the database up', async () => {
     const res = await request(server.app).get('/api/health').expect(200);
-    expect(res.body).toEqual({ status: 'ok', database: 'up', serverTime: expect.any(String) });
+    expect(res.body).toEqual({ status: 'ok', database: 'up', clock: { status: 'ok', maxLeadMs: expect.any(Number) }, serverTime: expect.any(String) });
     expect(Math.abs(Date.parse(res.body.serverTime) - Date.now())).toBeLessThan(5_000);
   });
 

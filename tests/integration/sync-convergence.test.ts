@@ -110,7 +110,7 @@ describe('1. convergence', () => {
 });
 
 describe('2. reply lost after commit', () => {
-  it('every op is applied exactly once: one op_log row each, one applied/rejected answer each, re-sends answered duplicate (fast-check, fixed seed)', async () => {
+  it('every op is applied exactly once: one op_log row per applied op, one applied answer each, re-sends answered duplicate; a refused op is never applied nor logged (fast-check, fixed seed)', async () => {
     const base = await loaded(team.coach, 'reply-base');
     await fc.assert(
       fc.asyncProperty(
@@ -158,30 +158,39 @@ describe('2. reply lost after commit', () => {
           }
           expect(failures).toBeGreaterThan(0);
 
-          // The server's op log: each op id once, for this device.
+          // Which ops the device holds as refused (only a plain coach's cue rename is).
+          const refused = new Set((await dev.store.listRejected()).map((e) => e.opId));
+          expect(refused.size).toBe(cueEdit ? 1 : 0);
+          for (const entry of await dev.store.listRejected()) expect(entry.rejectReason).toBe('permission');
+          const appliedIds = opIds.filter((id) => !refused.has(id));
+
+          // The server's op log: each applied op id once, for this device; refused ones never.
           const log = (await server.dataSource.query(`SELECT op_id, result FROM op_log WHERE team_id = $1 AND client_id = $2 AND op_id = ANY($3::uuid[])`, [
             team.teamId,
             dev.store.clientId,
             opIds,
           ])) as { op_id: string; result: { status: string; reason?: string } }[];
-          expect(log.map((r) => r.op_id).sort()).toEqual([...opIds].sort());
-          // Every answer the server gave (delivered or lost): exactly one applied or rejected per op.
+          expect(log.map((r) => r.op_id).sort()).toEqual([...appliedIds].sort());
+          expect(log.every((r) => r.result.status === 'applied')).toBe(true);
+          // Every answer the server gave (delivered or lost): exactly one applied per applied op,
+          // and only rejections for a refused one.
           const answers = new Map<string, string[]>();
           for (const call of dev.transport.calls) {
             if (call.kind !== 'push' || !call.reply) continue;
             for (const r of (call.reply as PushReply).results) answers.set(r.opId, [...(answers.get(r.opId) ?? []), r.status]);
           }
-          for (const opId of opIds) {
+          for (const opId of appliedIds) {
             const said = answers.get(opId) ?? [];
-            expect({ opId, firsts: said.filter((s) => s !== 'duplicate').length }).toEqual({ opId, firsts: 1 });
+            expect({ opId, applied: said.filter((s) => s !== 'duplicate').length }).toEqual({ opId, applied: 1 });
           }
-          // Every op whose first reply was lost was sent again and answered duplicate.
-          const lostOps = dev.transport.calls.filter((c) => c.kind === 'push' && c.fault.dropReply && c.reply).flatMap((c) => (c.sent as PushBody).ops.map((o) => o.opId));
+          for (const opId of refused) expect(new Set(answers.get(opId))).toEqual(new Set(['rejected']));
+          // Every applied op whose first reply was lost was sent again and answered duplicate.
+          const lostOps = dev.transport.calls
+            .filter((c) => c.kind === 'push' && c.fault.dropReply && c.reply)
+            .flatMap((c) => (c.sent as PushBody).ops.map((o) => o.opId))
+            .filter((id) => !refused.has(id));
           expect(lostOps.length).toBeGreaterThan(0);
           for (const opId of lostOps) expect(answers.get(opId)).toContain('duplicate');
-          const rejectedOps = log.filter((r) => r.result.status === 'rejected');
-          expect(rejectedOps.map((r) => r.result.reason)).toEqual(cueEdit ? ['permission'] : []);
-          expect(await dev.store.rejectedCount()).toBe(cueEdit ? 1 : 0);
 
           // Records: each surviving create once, live; each delete a tombstone; the edits stand.
           const rows = (await server.dataSource.query(`SELECT id, note, deleted_at FROM observations WHERE team_id = $1 AND id = ANY($2::uuid[])`, [team.teamId, made])) as {
@@ -199,7 +208,7 @@ describe('2. reply lost after commit', () => {
           dev.transport.policy = () => ({});
           for (const call of dev.transport.calls.filter((c) => c.kind === 'push' && c.sent)) {
             const reply = await dev.transport.push(call.sent as PushBody);
-            expect(reply.results.every((r) => r.status === 'duplicate')).toBe(true);
+            expect(reply.results.every((r) => r.status === (refused.has(r.opId) ? 'rejected' : 'duplicate'))).toBe(true);
           }
           const [{ seq: after }] = await server.dataSource.query(`SELECT seq FROM team_counters WHERE team_id = $1`, [team.teamId]);
           expect(after).toBe(before);

@@ -49,7 +49,7 @@ const observationCount = (ids: string[]) =>
   count(`SELECT count(*) AS n FROM observations WHERE team_id = $1 AND id = ANY($2::uuid[])`, [team.teamId, ids]);
 
 describe('retries', () => {
-  it('the same batch twice: every op answers duplicate with the same result and is applied once', async () => {
+  it('the same batch twice: applied ops answer duplicate and are applied once; a rejected op is judged again', async () => {
     const dev = device(team.head);
     const ops = [newObservation(team, dev), newObservation(team, dev, { skaterId: team.skaterB.id }), newObservation(team, dev, { mark: 'bad' as never })];
     const first = await pushOk(server.app, dev, team.teamId, ops);
@@ -58,9 +58,14 @@ describe('retries', () => {
     const seqBefore = await count(`SELECT seq AS n FROM team_counters WHERE team_id = $1`, [team.teamId]);
 
     const again = await pushOk(server.app, dev, team.teamId, ops);
-    expect(again.results.map((r) => [r.opId, r.status])).toEqual(ops.map((op) => [op.opId, 'duplicate']));
-    // The rejected op stays explained on the retry.
-    expect(again.results[2].reason).toBe('validation');
+    expect(again.results.map((r) => [r.opId, r.status])).toEqual([
+      [ops[0].opId, 'duplicate'],
+      [ops[1].opId, 'duplicate'],
+      [ops[2].opId, 'rejected'],
+    ]);
+    // The rejected op is not in the op log (refused input never grows it): it is refused afresh,
+    // with the same reason.
+    expect(again.results[2]).toMatchObject({ reason: 'validation', message: expect.stringMatching(/mark/i) });
     expect(await observationCount(ops.map((o) => o.recordId))).toBe(2);
     expect(await count(`SELECT seq AS n FROM team_counters WHERE team_id = $1`, [team.teamId])).toBe(seqBefore);
   });
@@ -107,8 +112,9 @@ describe('no partially applied batch', () => {
     expect(reply.results[1].message).toMatch(/cueId/);
     expect(reply.results[2].message).toMatch(/280/);
     expect(await observationCount([good1, badCue, tooLong, unknown, good2].map((o) => o.recordId))).toBe(2);
-    // Rejected ops are logged with their result, so a retry gets the same answer.
-    expect(await opLogCount([badCue.opId, tooLong.opId, unknown.opId])).toBe(3);
+    // Only applied ops are logged: refused input does not grow the op log.
+    expect(await opLogCount([badCue.opId, tooLong.opId, unknown.opId, strayField.opId])).toBe(0);
+    expect(await opLogCount([good1.opId, good2.opId])).toBe(2);
   });
 
   it('a database failure mid-batch answers 503 and applies nothing; the retry then applies', async () => {

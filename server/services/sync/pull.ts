@@ -10,75 +10,62 @@
  *           come back as plain columns; the fields are assembled here (cheaper than JSON in SQL).
  *   Pull.3  role filter inside the SQL: coaches get the team; a skater (or the guardian of one)
  *           gets only that skater's observations, with the note text blanked unless shared, their
- *           own profile, and the team's sessions, cues and groups.
+ *           own profile and group, and the team's sessions and cues.
  *   Pull.4  `remaining` counts what is left after this page with the same filter, in the same
  *           snapshot (REPEATABLE READ, read only) as the page itself; a short page leaves 0.
  *
- * Evictions: nothing in today's model makes a visible record invisible to a member (a note made
- * private arrives as a change with the text blanked; a removed member gets 404), so the list is
- * empty. It is kept in the reply for when such a rule appears.
+ * Evictions: a skater or guardian sees only their skater's group. When their skater's profile
+ * comes in a page (it changed: moved to another group, say), the page also carries the group they
+ * are in now and evicts every other group from their device. A note made private arrives as a
+ * change with its text blanked (the mark stays the skater's to see); a removed member gets 404.
+ *
+ * The columns and filters come from shared/sync-tables.ts.
  */
 import type { DataSource } from 'typeorm';
-import type { PullReply, PullTable } from '../../../shared/schemas/sync';
+import type { PullReply } from '../../../shared/schemas/sync';
+import { fieldsOf, syncTableNames, tableSpec, type SyncTableName } from '../../../shared/sync-tables';
 import { HttpError } from '../../lib/errors';
 import { serverClock, serverNow } from './clock';
-import type { Caller } from './push';
+import type { Caller } from './settle';
 
-const ts = (column: string) => `to_char(${column} AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')`;
+const ts = (sql: string) => `to_char(${sql} AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"')`;
 
 type Row = Record<string, unknown>;
 
 interface Source {
-  table: PullTable;
+  table: SyncTableName;
   from: string;
   /** The columns `fields` reads, as plain SQL values (building JSON in SQL costs more than here). */
   columns: (coach: boolean) => string;
-  /** The record's fields; keys in the order PostgreSQL's jsonb gave them (shorter first, then A-Z). */
+  /** The record's fields from the row. */
   fields: (row: Row) => Record<string, unknown>;
   /** Extra condition for a skater or guardian viewer ($4 is their skater id). */
   ownOnly?: string;
 }
 
-const sources: Source[] = [
-  {
-    table: 'observations',
-    from: 'observations',
-    columns: (coach) => `session_id, skater_id, cue_id, mark, ${coach ? 'note' : `CASE WHEN note_shared THEN note ELSE '' END AS note`},
-      note_shared, ${ts('created_at')} AS created_at, created_by, ${ts('acknowledged_at')} AS acknowledged_at`,
-    fields: (r) => ({
-      mark: r.mark, note: r.note, cueId: r.cue_id, skaterId: r.skater_id, createdAt: r.created_at, createdBy: r.created_by,
-      sessionId: r.session_id, noteShared: r.note_shared, acknowledgedAt: r.acknowledged_at,
-    }),
-    ownOnly: 'skater_id = $4',
-  },
-  {
-    table: 'sessions',
-    from: 'sessions',
-    columns: () => `day, rink, title, focus_cue_ids, ${ts('created_at')} AS created_at, created_by`,
-    fields: (r) => ({
-      day: r.day, rink: r.rink, title: r.title, createdAt: r.created_at, createdBy: r.created_by, focusCueIds: r.focus_cue_ids,
-    }),
-  },
-  {
-    table: 'cues',
-    from: 'cues',
-    columns: () => `phase, label, sort_order, archived_at IS NOT NULL AS archived`,
-    fields: (r) => ({ label: r.label, phase: r.phase, archived: r.archived, sortOrder: r.sort_order }),
-  },
-  {
-    table: 'skaters',
-    from: 'skaters',
-    columns: () => `display_name, group_id, user_id IS NOT NULL AS has_account`,
-    fields: (r) => ({ groupId: r.group_id, hasAccount: r.has_account, displayName: r.display_name }),
-    ownOnly: 'id = $4',
-  },
-  {
-    table: 'groups',
-    from: 'skater_groups',
-    columns: () => `name, sort_order`,
-    fields: (r) => ({ name: r.name, sortOrder: r.sort_order }),
-  },
-];
+/** One source per synced table, derived from its description in shared/sync-tables.ts. */
+function sourceOf(table: SyncTableName): Source {
+  const spec = tableSpec(table);
+  const fields = fieldsOf(table);
+  const alias = (name: string) => `f_${name.toLowerCase()}`;
+  const columns = (coach: boolean) =>
+    fields
+      .map(([name, f]) => {
+        const sql = (!coach && f.viewerRead) || f.read || f.column;
+        return `${f.server === 'timestamptz' ? ts(sql) : sql} AS ${alias(name)}`;
+      })
+      .join(', ');
+  return {
+    table,
+    from: spec.serverTable,
+    columns,
+    fields: (row) => Object.fromEntries(fields.map(([name]) => [name, row[alias(name)]])),
+    ownOnly: spec.viewerRows === 'team' ? undefined : spec.viewerRows.where.replace(/\$viewer/g, '$4'),
+  };
+}
+
+const sources: Source[] = syncTableNames.map(sourceOf);
+const groupsSource = sources.find((s) => s.table === 'groups')!;
 
 /** $1 team, $2 cursor, $3 limit, $4 the viewer's skater id (skater and guardian variant only). */
 function where(source: Source, coach: boolean) {
@@ -95,7 +82,7 @@ function pageSql(coach: boolean) {
 
 function remainingSql(coach: boolean) {
   // No limit here: the viewer's skater id moves to $3.
-  const cond = (s: Source) => where(s, coach).replace('$4', '$3');
+  const cond = (s: Source) => where(s, coach).replace(/\$4/g, '$3');
   return `SELECT ${sources.map((s) => `(SELECT count(*) FROM ${s.from} WHERE ${cond(s)})`).join(' + ')} AS n`;
 }
 
@@ -148,6 +135,20 @@ export async function readPull(
     const n = complete
       ? 0
       : Number(((await runner.query(sql.remaining, [teamId, nextCursor, ...viewer], true)).records as { n: string }[])[0].n);
+    // Evictions (Pull.3): a skater's own profile in this page may mean they moved group.
+    let moved: { groups: { mine: boolean; row: PageRow['row'] }[] } | null = null;
+    if (!coach && page.some((p) => p.source.table === 'skaters' && p.row.id === viewer[0])) {
+      const groups = (
+        await runner.query(
+          `SELECT g.id, g.server_seq, g.deleted_at IS NOT NULL AS deleted, ${groupsSource.columns(true)},
+                  g.id = (SELECT v.group_id FROM skaters v WHERE v.team_id = $1 AND v.id = $2) AS mine
+             FROM skater_groups g WHERE g.team_id = $1 AND g.deleted_at IS NULL`,
+          [teamId, viewer[0]],
+          true,
+        )
+      ).records as (PageRow['row'] & { mine: boolean | null })[];
+      moved = { groups: groups.map((row) => ({ mine: row.mine === true, row })) };
+    }
     await runner.query('COMMIT');
     open = false;
 
@@ -158,12 +159,20 @@ export async function readPull(
       nextCursor,
       hasMore: Number(n) > 0,
       remaining: Number(n),
-      serverClock: serverClock(),
+      serverClock: serverClock(teamId),
       serverTime: new Date(serverNow()).toISOString(),
     };
     for (const { source, row, serverSeq } of page) {
       if (row.deleted) reply.tombstones.push({ table: source.table, id: row.id, serverSeq });
       else reply.changes.push({ table: source.table, id: row.id, serverSeq, fields: source.fields(row) });
+    }
+    if (moved) {
+      // The viewer's skater changed (moved to another group, say): the group they are in now
+      // comes again, and every other group leaves their device.
+      for (const group of moved.groups) {
+        if (group.mine) reply.changes.push({ table: 'groups', id: group.row.id, serverSeq: Number(group.row.server_seq), fields: groupsSource.fields(group.row) });
+        else reply.evictions.push({ table: 'groups', id: group.row.id });
+      }
     }
     return reply;
   } catch (error) {

@@ -1,0 +1,231 @@
+/**
+ * The pure core of a push (shared/SYNC.md, "Push" and "Conflicts"): given the batch's ops and the
+ * records they touch as loaded from the database, decide each op and change the records in
+ * memory. No I/O: load.ts reads before, write.ts writes after, push.ts holds the transaction.
+ *
+ *   Push.3  each op is checked for its clock values (done by the caller, passed as `refused`),
+ *           role (permission), field values and instants (validation), its author (the token's
+ *           user, never another), and for an unknown record whether it carries what a new record
+ *           needs (unknown_record).
+ *   Push.4  merge per field: the newest clock value wins (values arrive already clamped), fixed
+ *           fields stay as created, and a delete wins over any edit: the record becomes a
+ *           tombstone, and a delete of a record the server never knew leaves a tombstone too,
+ *           so a create that arrives after it stays deleted.
+ *
+ * Everything is driven by the table descriptions in shared/sync-tables.ts. Field names from the
+ * op are looked up as own properties only: `constructor` or `toString` is an unknown field.
+ */
+import { describeIssues } from '../../../shared/schemas/errors';
+import type { Role } from '../../../shared/schemas';
+import type { Op, OpResult } from '../../../shared/schemas/sync';
+import { fieldSpec, tableSpec, type SyncTableName } from '../../../shared/sync-tables';
+
+export interface Caller {
+  userId: string;
+  role: Role;
+  /** The skater a skater account is, or a guardian is linked to. */
+  skaterId: string | null;
+}
+
+/** A record as the batch sees it: loaded from the database, then changed in memory. */
+export interface RecordState {
+  table: SyncTableName;
+  id: string;
+  /** The server has a row for it (live or a tombstone). */
+  exists: boolean;
+  values: Record<string, unknown>;
+  fieldHlc: Record<string, string>;
+  deletedAt: string | null;
+  deletedHlc: string | null;
+  /** Deleted before the server ever had it: kept in sync_tombstones, not in the table. */
+  ghost: boolean;
+  dirty: boolean;
+}
+
+export interface BatchState {
+  /** Records by `table:id`. */
+  records: Map<string, RecordState>;
+  /** Live ids of the pull-only tables the batch points at (skaters), by table. */
+  live: Map<SyncTableName, Set<string>>;
+}
+
+export interface SettleContext {
+  caller: Caller;
+  /** The server's time (ms) for this batch. */
+  now: number;
+  /** When the team was created (ms): no instant of its records is earlier. */
+  teamCreatedAt: number;
+  /** How far ahead of `now` an instant may be (the clock clamp's lead). */
+  maxLeadMs: number;
+}
+
+/** Slack for instants just before the team existed (a device clock a few minutes behind). */
+export const INSTANT_SLACK_MS = 5 * 60_000;
+
+export const recordKey = (table: string, id: string) => `${table}:${id}`;
+
+const own = (object: object, key: string) => Object.prototype.hasOwnProperty.call(object, key);
+
+const rejected = (opId: string, reason: NonNullable<OpResult['reason']>, message: string): OpResult => ({
+  opId,
+  status: 'rejected',
+  reason,
+  message,
+});
+
+const applied = (opId: string, message?: string): OpResult => ({ opId, status: 'applied', ...(message ? { message } : {}) });
+
+export const isCoach = (role: Role) => role === 'head_coach' || role === 'coach';
+
+export function emptyRecord(table: SyncTableName, id: string): RecordState {
+  return { table, id, exists: false, values: {}, fieldHlc: {}, deletedAt: null, deletedHlc: null, ghost: false, dirty: false };
+}
+
+function recordOf(state: BatchState, table: SyncTableName, id: string): RecordState {
+  const key = recordKey(table, id);
+  let record = state.records.get(key);
+  if (!record) {
+    record = emptyRecord(table, id);
+    state.records.set(key, record);
+  }
+  return record;
+}
+
+function isLive(state: BatchState, table: SyncTableName, id: string): boolean {
+  if (tableSpec(table).pushBy === 'none') return state.live.get(table)?.has(id) ?? false;
+  const record = state.records.get(recordKey(table, id));
+  return Boolean(record?.exists && !record.deletedAt);
+}
+
+/**
+ * Settles every op of a batch in order. `refused` holds ops already refused for their clock
+ * values (with the reason). Returns one result per op id (the first op of a repeated id counts);
+ * the records in `state` are changed in place and marked `dirty` where they must be written.
+ */
+export function settleBatch(ops: readonly Op[], state: BatchState, context: SettleContext, refused: ReadonlyMap<string, string> = new Map()) {
+  const results = new Map<string, OpResult>();
+  /** The records each applied op changed, so a record the database refuses can reject its ops. */
+  const touched = new Map<string, string>();
+  for (const op of ops) {
+    if (results.has(op.opId)) continue;
+    const problem = refused.get(op.opId);
+    const result = problem ? rejected(op.opId, 'validation', problem) : settleOp(op, state, context);
+    results.set(op.opId, result);
+    if (result.status === 'applied') touched.set(op.opId, recordKey(op.table, op.recordId));
+  }
+  return { results, touched };
+}
+
+function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
+  const { caller } = context;
+  const spec = tableSpec(op.table);
+  const record = recordOf(state, op.table, op.recordId);
+  const fieldNames = Object.keys(op.fields);
+
+  // Push.3a: role, per table and per field.
+  if (spec.pushBy === 'none') return rejected(op.opId, 'permission', `${op.table} cannot be changed through sync`);
+  if (!isCoach(caller.role)) {
+    const ownerField = spec.ownerField;
+    const mine = Boolean(ownerField && record.exists && !record.deletedAt && caller.skaterId !== null && record.values[ownerField] === caller.skaterId);
+    const skaterFieldsOnly = fieldNames.length > 0 && fieldNames.every((f) => fieldSpec(op.table, f)?.writer === 'own_skater');
+    if (op.kind !== 'upsert' || !skaterFieldsOnly || !mine) {
+      return rejected(op.opId, 'permission', 'A skater or guardian may only acknowledge their own notes');
+    }
+  } else {
+    if (spec.pushBy === 'head_coach' && caller.role !== 'head_coach') {
+      return rejected(op.opId, 'permission', `Only the head coach may change ${op.table === 'cues' ? 'the cue library' : op.table}`);
+    }
+    const skaterField = fieldNames.find((f) => fieldSpec(op.table, f)?.writer === 'own_skater');
+    if (skaterField) return rejected(op.opId, 'permission', `Only the skater sets ${skaterField}`);
+  }
+
+  // Push.3b: the op's shape, its values and its clock values.
+  const hlcNames = Object.keys(op.hlc);
+  if (op.kind === 'delete') {
+    if (fieldNames.length > 0) return rejected(op.opId, 'validation', 'A delete carries no fields');
+    if (!own(op.hlc, 'deleted')) return rejected(op.opId, 'validation', 'hlc.deleted: a delete needs its clock value');
+    if (hlcNames.length > 1) return rejected(op.opId, 'validation', 'A delete carries one clock value, under "deleted"');
+  } else {
+    const stray = hlcNames.find((name) => !own(op.fields, name));
+    if (stray !== undefined) return rejected(op.opId, 'validation', `hlc.${stray}: a clock value for a field the op does not change`);
+  }
+  const values: Record<string, unknown> = {};
+  const problems: { path: PropertyKey[]; message: string }[] = [];
+  for (const field of fieldNames) {
+    const fieldRule = fieldSpec(op.table, field);
+    if (!fieldRule?.rule) {
+      problems.push({ path: [field], message: `${field} is not a field of ${op.table} that a device may change` });
+      continue;
+    }
+    if (!own(op.hlc, field)) problems.push({ path: [field], message: `${field} has no clock value` });
+    const parsed = fieldRule.rule.safeParse(op.fields[field]);
+    if (!parsed.success) {
+      problems.push(...parsed.error.issues.map((issue) => ({ ...issue, path: [field, ...issue.path] })));
+      continue;
+    }
+    if (fieldRule.author && parsed.data !== caller.userId) {
+      return rejected(op.opId, 'permission', `${field} must be the signed-in user: a change cannot be made in someone else's name`);
+    }
+    if (fieldRule.instant && typeof parsed.data === 'string') {
+      const at = Date.parse(parsed.data);
+      if (at > context.now + context.maxLeadMs) problems.push({ path: [field], message: `${field} is in the future` });
+      else if (at < context.teamCreatedAt - INSTANT_SLACK_MS) problems.push({ path: [field], message: `${field} is before the team existed` });
+    }
+    Object.defineProperty(values, field, { value: parsed.data, enumerable: true, writable: true, configurable: true });
+  }
+  if (problems.length > 0) return rejected(op.opId, 'validation', describeIssues(problems).message);
+
+  // Push.3c: references must be live records of the same team (new ones of this batch count).
+  const creating = !record.exists && !record.ghost;
+  for (const field of Object.keys(values)) {
+    const fieldRule = fieldSpec(op.table, field)!;
+    if (!fieldRule.ref || (!creating && fieldRule.immutable)) continue;
+    const list = Array.isArray(values[field]) ? (values[field] as string[]) : [values[field] as string];
+    const missing = list.find((id) => !isLive(state, fieldRule.ref!, id));
+    if (missing) return rejected(op.opId, 'validation', `${field}: no such ${fieldRule.ref.replace(/s$/, '')} in this team (${missing})`);
+  }
+
+  // Push.4: merge.
+  if (op.kind === 'delete') {
+    if (record.deletedAt) return applied(op.opId, 'Already deleted');
+    // Delete wins over any edit, whatever its clock: the record becomes a tombstone.
+    record.deletedAt = new Date(context.now).toISOString();
+    record.deletedHlc = op.hlc.deleted;
+    if (!record.exists) record.ghost = true;
+    record.dirty = true;
+    return applied(op.opId, record.ghost ? 'Nothing to delete; the id stays deleted' : undefined);
+  }
+
+  if (record.deletedAt) return applied(op.opId, 'The record was deleted; the change was dropped');
+
+  if (creating) {
+    const authorField = Object.entries(spec.fields).find(([, f]) => f.author)?.[0];
+    const missing = Object.entries(spec.fields)
+      .filter(([name, f]) => f.required && !own(values, name))
+      .map(([name]) => name);
+    if (missing.length > 0) {
+      return rejected(op.opId, 'unknown_record', `This record does not exist on the server, and a new one needs: ${missing.join(', ')}`);
+    }
+    const initial: Record<string, unknown> = {};
+    for (const [name, f] of Object.entries(spec.fields)) if (f.rule && f.initial !== undefined) initial[name] = f.initial;
+    record.exists = true;
+    record.values = { ...initial, ...values, ...(authorField ? { [authorField]: caller.userId } : {}) };
+    record.fieldHlc = Object.fromEntries(Object.keys(values).map((field) => [field, op.hlc[field]]));
+    record.dirty = true;
+    return applied(op.opId);
+  }
+
+  // Newest clock wins, field by field (encoded HLCs compare as strings).
+  for (const field of Object.keys(values)) {
+    if (fieldSpec(op.table, field)!.immutable) continue;
+    const incoming = op.hlc[field];
+    const current = own(record.fieldHlc, field) ? record.fieldHlc[field] : undefined;
+    if (current !== undefined && incoming <= current) continue;
+    record.fieldHlc = { ...record.fieldHlc, [field]: incoming };
+    record.values = { ...record.values, [field]: values[field] };
+  }
+  // Restamped even when an older clock lost every field: the row then comes down again in the
+  // sender's next pull, and the device replaces its losing local value with the winner.
+  record.dirty = true;
+  return applied(op.opId);
+}
