@@ -31,7 +31,14 @@ export const opSchema = z
     recordId: z.uuid({ error: 'recordId must be a UUID' }),
     kind: z.enum(['upsert', 'delete'], { error: 'kind must be upsert or delete' }),
     /** The changed fields (all of them for a new record); validated per table on the server. */
-    fields: z.record(z.string(), z.unknown()),
+    fields: z
+      .unknown()
+      // A "__proto__" key would be dropped by the parse below (it sets a prototype instead of a
+      // field): refuse it rather than apply an op missing a field its sender meant.
+      .refine((value) => !(value && typeof value === 'object' && Object.prototype.hasOwnProperty.call(value, '__proto__')), {
+        error: 'a field cannot be named __proto__',
+      })
+      .pipe(z.record(z.string(), z.unknown())),
     /** One clock value per changed field (a delete carries one under "deleted"). */
     hlc: z.record(z.string(), hlcSchema),
   })

@@ -169,9 +169,10 @@ export async function readPull(
     if (moved) {
       // The viewer's skater changed (moved to another group, say): the group they are in now
       // comes again, and every other group leaves their device.
+      const inPage = new Set(reply.changes.filter((c) => c.table === 'groups').map((c) => c.id));
       for (const group of moved.groups) {
-        if (group.mine) reply.changes.push({ table: 'groups', id: group.row.id, serverSeq: Number(group.row.server_seq), fields: groupsSource.fields(group.row) });
-        else reply.evictions.push({ table: 'groups', id: group.row.id });
+        if (group.mine && !inPage.has(group.row.id)) reply.changes.push({ table: 'groups', id: group.row.id, serverSeq: Number(group.row.server_seq), fields: groupsSource.fields(group.row) });
+        else if (!group.mine) reply.evictions.push({ table: 'groups', id: group.row.id });
       }
     }
     return reply;
