@@ -6,8 +6,11 @@
  * - Changes are written with multi-row `INSERT … ON CONFLICT (id) DO UPDATE` (up to 1000 rows per
  *   statement, fewer when a row has many columns, well under SQLite's 32,766 bind parameters).
  *   Pulled rows are `synced = 1`.
- * - A field with a local edit still in the outbox keeps its local value; the server's value is
- *   kept in the shadow (sync/shadow.ts) until the edit is acknowledged or discarded.
+ * - A field with a local edit still in the outbox keeps its local value, also when the record is
+ *   new to the device (after a hand-over the user's own edits arrive before their record); the
+ *   server's value is kept in the shadow (sync/shadow.ts) until the edit is acknowledged or
+ *   discarded. A record with a waiting delete stays hidden. Only the signed-in user's outbox
+ *   counts: changes other people left parked on a shared device never show through.
  * - A tombstone deletes the row and every outbox entry for it (delete wins) - a queued edit must
  *   not bring the record back.
  * - An eviction (the caller may no longer see the record) deletes the row; the caller's own queued
@@ -18,7 +21,7 @@ import type { Change, PullReply, PullTable } from '../shared/schemas/sync';
 import type { SqlDriver, SqlValue } from './driver';
 import { encodeFields, isPullTable, PULL_TABLES } from './fields';
 import { readShadow, writeShadow } from './shadow';
-import { metaKeys, type DeviceStore } from './store';
+import type { DeviceStore, OwnerFilter, SyncKeys } from './store';
 
 export const APPLY_ROWS_PER_STATEMENT = 1000;
 /** SQLite's default SQLITE_MAX_VARIABLE_NUMBER (3.32+). */
@@ -31,7 +34,10 @@ export interface ApplySummary {
   cursor: number;
 }
 
-type Row = { id: string; names: string[]; columns: string[]; values: SqlValue[]; masked: Set<string> | null; fields: Record<string, unknown> };
+/** The user's waiting changes on one record: the newest local value per field, and a delete. */
+type Local = { values: Map<string, unknown>; deleting: boolean };
+
+type Row = { id: string; names: string[]; columns: string[]; values: SqlValue[]; masked: Local | null; fields: Record<string, unknown> };
 
 const json = (values: readonly unknown[]) => JSON.stringify(values);
 
@@ -39,18 +45,20 @@ async function setMeta(db: SqlDriver, key: string, value: string) {
   await db.run(`INSERT INTO meta (key, value) VALUES (?, ?) ON CONFLICT (key) DO UPDATE SET value = excluded.value`, [key, value]);
 }
 
-/** Fields hidden by local edits still in the outbox, per `table/id`, for the page's records. */
-async function maskedFields(db: SqlDriver, changes: readonly Change[]): Promise<Map<string, Set<string>>> {
-  const masks = new Map<string, Set<string>>();
+/** The signed-in user's waiting changes, per `table/id`, for the page's records. */
+async function maskedFields(db: SqlDriver, changes: readonly Change[], mine: OwnerFilter): Promise<Map<string, Local>> {
+  const masks = new Map<string, Local>();
   if (changes.length === 0) return masks;
-  const rows = await db.all<{ tbl: string; record_id: string; fields: string }>(
-    `SELECT tbl, record_id, fields FROM outbox WHERE kind = 'upsert' AND record_id IN (SELECT value FROM json_each(?))`,
-    [json(changes.map((c) => c.id))],
+  const rows = await db.all<{ tbl: string; record_id: string; kind: 'upsert' | 'delete'; fields: string }>(
+    `SELECT tbl, record_id, kind, fields FROM outbox WHERE record_id IN (SELECT value FROM json_each(?))${mine.sql} ORDER BY seq`,
+    [json(changes.map((c) => c.id)), ...mine.params],
   );
   for (const r of rows) {
     const key = `${r.tbl}/${r.record_id}`;
-    if (!masks.has(key)) masks.set(key, new Set());
-    for (const field of Object.keys(JSON.parse(r.fields) as object)) masks.get(key)!.add(field);
+    if (!masks.has(key)) masks.set(key, { values: new Map(), deleting: false });
+    const local = masks.get(key)!;
+    if (r.kind === 'delete') local.deleting = true;
+    else for (const [field, value] of Object.entries(JSON.parse(r.fields) as Record<string, unknown>)) local.values.set(field, value);
   }
   return masks;
 }
@@ -73,23 +81,30 @@ async function upsertRows(db: SqlDriver, table: PullTable, teamId: string, colum
   }
 }
 
-/** A row with local edits waiting: insert it whole if new, else update only the unhidden fields. */
+/**
+ * A row with local changes waiting. New to the device: inserted with the local values of the
+ * fields the user changed (and hidden if they deleted it). Already held: only the fields without
+ * a local change are updated. Either way the server's values of the hidden fields go to the shadow.
+ */
 async function upsertMaskedRow(db: SqlDriver, table: PullTable, teamId: string, row: Row) {
-  const masked = row.masked!;
-  const updates = [...row.columns.filter((_, i) => !masked.has(row.names[i])).map((c) => `${c} = excluded.${c}`), 'synced = 1'];
+  const local = row.masked!;
+  const inserted = encodeFields(table, { ...row.fields, ...Object.fromEntries(local.values) });
+  const extra = local.deleting && table === 'observations' ? ['deleted'] : [];
+  const updates = [...row.columns.filter((_, i) => !local.values.has(row.names[i])).map((c) => `${c} = excluded.${c}`), 'synced = 1'];
   await db.run(
-    `INSERT INTO ${table} (id, team_id, ${row.columns.map((c) => `${c}, `).join('')}synced)
-     VALUES (${['?', '?', ...row.columns.map(() => '?')].join(', ')}, 1)
+    `INSERT INTO ${table} (id, team_id, ${[...inserted.columns, ...extra].map((c) => `${c}, `).join('')}synced)
+     VALUES (${['?', '?', ...inserted.columns.map(() => '?'), ...extra.map(() => '1')].join(', ')}, 1)
      ON CONFLICT (id) DO UPDATE SET ${updates.join(', ')}`,
-    [row.id, teamId, ...row.values],
+    [row.id, teamId, ...inserted.values],
   );
-  const hidden = Object.fromEntries(Object.entries(row.fields).filter(([field]) => masked.has(field)));
+  const hidden = Object.fromEntries(Object.entries(row.fields).filter(([field]) => local.values.has(field)));
   if (Object.keys(hidden).length > 0) {
     await writeShadow(db, table, row.id, { ...(await readShadow(db, table, row.id)), ...hidden });
   }
 }
 
-async function deleteRecords(db: SqlDriver, items: readonly { table: PullTable; id: string }[], dropOutbox: boolean) {
+/** Deletes rows; a tombstone (`dropOutbox`) also drops the signed-in user's queued changes on them. */
+async function deleteRecords(db: SqlDriver, items: readonly { table: PullTable; id: string }[], dropOutbox: OwnerFilter | null) {
   const byTable = new Map<PullTable, string[]>();
   for (const item of items) {
     if (!isPullTable(item.table)) continue;
@@ -99,17 +114,24 @@ async function deleteRecords(db: SqlDriver, items: readonly { table: PullTable; 
   for (const [table, ids] of byTable) {
     await db.run(`DELETE FROM ${table} WHERE id IN (SELECT value FROM json_each(?))`, [json(ids)]);
     await db.run(`DELETE FROM sync_shadow WHERE tbl = ? AND record_id IN (SELECT value FROM json_each(?))`, [table, json(ids)]);
-    if (dropOutbox) await db.run(`DELETE FROM outbox WHERE tbl = ? AND record_id IN (SELECT value FROM json_each(?))`, [table, json(ids)]);
+    if (dropOutbox) {
+      await db.run(`DELETE FROM outbox WHERE tbl = ? AND record_id IN (SELECT value FROM json_each(?))${dropOutbox.sql}`, [
+        table,
+        json(ids),
+        ...dropOutbox.params,
+      ]);
+    }
   }
 }
 
 /** Marks the team's confirmed rows as "to be confirmed again" and restarts from cursor 0. */
-export async function beginFullResync(store: DeviceStore, teamId: string): Promise<void> {
-  const sync = store.syncInternals();
+export async function beginFullResync(store: DeviceStore, teamId: string, run?: { userId: string | undefined }): Promise<void> {
+  const sync = run ? store.syncInternals(run.userId) : store.syncInternals();
+  const keys = sync.keys(teamId);
   await sync.transaction(async () => {
     for (const table of PULL_TABLES) await sync.db.run(`UPDATE ${table} SET synced = 2 WHERE team_id = ? AND synced = 1`, [teamId]);
-    await setMeta(sync.db, metaKeys.cursor(teamId), '0');
-    await setMeta(sync.db, metaKeys.resync(teamId), '1');
+    await setMeta(sync.db, keys.cursor, '0');
+    await setMeta(sync.db, keys.resync, '1');
   });
 }
 
@@ -117,25 +139,30 @@ export async function beginFullResync(store: DeviceStore, teamId: string): Promi
  * The end of a full re-sync: rows it did not bring back are gone on the server (their tombstones
  * expired), unless the unsent outbox still refers to them.
  */
-async function sweepUnconfirmed(db: SqlDriver, teamId: string) {
+async function sweepUnconfirmed(db: SqlDriver, teamId: string, keys: SyncKeys, mine: OwnerFilter) {
   const keep: Partial<Record<PullTable, string>> = {
-    sessions: `OR id IN (SELECT session_id FROM observations WHERE id IN (SELECT record_id FROM outbox WHERE tbl = 'observations'))`,
+    sessions: `OR id IN (SELECT session_id FROM observations WHERE id IN (SELECT record_id FROM outbox WHERE tbl = 'observations'${mine.sql}))`,
   };
   for (const table of PULL_TABLES) {
     await db.run(
       `DELETE FROM ${table} WHERE team_id = ? AND synced = 2
-         AND NOT (id IN (SELECT record_id FROM outbox WHERE tbl = ?) ${keep[table] ?? ''})`,
-      [teamId, table],
+         AND NOT (id IN (SELECT record_id FROM outbox WHERE tbl = ?${mine.sql}) ${keep[table] ?? ''})`,
+      [teamId, table, ...mine.params, ...(keep[table] ? mine.params : [])],
     );
     await db.run(`UPDATE ${table} SET synced = 1 WHERE team_id = ? AND synced = 2`, [teamId]);
     await db.run(`DELETE FROM sync_shadow WHERE tbl = ? AND record_id NOT IN (SELECT id FROM ${table})`, [table]);
   }
-  await db.run(`DELETE FROM meta WHERE key = ?`, [metaKeys.resync(teamId)]);
+  await db.run(`DELETE FROM meta WHERE key = ?`, [keys.resync]);
 }
 
-export async function applyPullPage(store: DeviceStore, teamId: string, page: PullReply): Promise<ApplySummary> {
-  const sync = store.syncInternals();
-  const { db } = sync;
+/**
+ * `run.userId`: the user the page was pulled for (left out: the user the store is open for). If
+ * someone else opened the store since, nothing is applied (OwnerChanged).
+ */
+export async function applyPullPage(store: DeviceStore, teamId: string, page: PullReply, run?: { userId: string | undefined }): Promise<ApplySummary> {
+  const sync = run ? store.syncInternals(run.userId) : store.syncInternals();
+  const { db, mine } = sync;
+  const keys = sync.keys(teamId);
   return sync.transaction(async () => {
     // The newest change per record wins within the page.
     const latest = new Map<string, Change>();
@@ -145,7 +172,7 @@ export async function applyPullPage(store: DeviceStore, teamId: string, page: Pu
       if (!seen || seen.serverSeq <= change.serverSeq) latest.set(key, change);
     }
     const changes = [...latest.values()];
-    const masks = await maskedFields(db, changes);
+    const masks = await maskedFields(db, changes, mine);
 
     // Rows sharing a table and column list go into the same multi-row statement.
     const groups = new Map<string, { table: PullTable; columns: string[]; rows: Row[] }>();
@@ -164,13 +191,13 @@ export async function applyPullPage(store: DeviceStore, teamId: string, page: Pu
     for (const group of groups.values()) await upsertRows(db, group.table, teamId, group.columns, group.rows);
     for (const { table, row } of maskedRows) await upsertMaskedRow(db, table, teamId, row);
 
-    await deleteRecords(db, page.tombstones, true);
-    await deleteRecords(db, page.evictions, false);
+    await deleteRecords(db, page.tombstones, mine);
+    await deleteRecords(db, page.evictions, null);
 
-    await setMeta(db, metaKeys.cursor(teamId), String(page.nextCursor));
+    await setMeta(db, keys.cursor, String(page.nextCursor));
     if (!page.hasMore) {
-      const [resync] = await db.all<{ value: string }>(`SELECT value FROM meta WHERE key = ?`, [metaKeys.resync(teamId)]);
-      if (resync) await sweepUnconfirmed(db, teamId);
+      const [resync] = await db.all<{ value: string }>(`SELECT value FROM meta WHERE key = ?`, [keys.resync]);
+      if (resync) await sweepUnconfirmed(db, teamId, keys, mine);
     }
     sync.receiveClock(page.serverClock);
     return { changes: page.changes.length, tombstones: page.tombstones.length, evictions: page.evictions.length, cursor: page.nextCursor };

@@ -36,6 +36,11 @@ export interface PullSummary {
 export interface PullOptions {
   /** Page size, at most 1000. */
   limit?: number;
+  /**
+   * The user the pull is for (default: the user the store is open for). The cursor is theirs;
+   * if someone else opens the store meanwhile, the next page is not applied (OwnerChanged).
+   */
+  userId?: string;
 }
 
 export async function pullAll(
@@ -47,9 +52,12 @@ export async function pullAll(
 ): Promise<PullSummary> {
   const limit = Math.max(1, Math.min(options.limit ?? SYNC_PULL_MAX_LIMIT, SYNC_PULL_MAX_LIMIT));
   const summary: PullSummary = { pages: 0, changes: 0, tombstones: 0, evictions: 0, resynced: false, cursor: 0, serverTime: null };
+  const sync = 'userId' in options ? store.syncInternals(options.userId) : store.syncInternals();
+  const userId = sync.owner;
+  const cursorKey = sync.keys(teamId).cursor;
   let done = 0;
   for (;;) {
-    const cursor = await store.cursor(teamId);
+    const cursor = Number((await store.getMeta(cursorKey)) ?? 0);
     let page;
     try {
       page = await transport.pull({ teamId, cursor, limit });
@@ -57,7 +65,7 @@ export async function pullAll(
       if (error instanceof ResyncRequired && !summary.resynced) {
         summary.resynced = true;
         try {
-          await beginFullResync(store, teamId);
+          await beginFullResync(store, teamId, { userId });
         } catch (cause) {
           throw new SyncError('apply', cause);
         }
@@ -67,7 +75,7 @@ export async function pullAll(
       throw new SyncError('pull', error);
     }
     try {
-      await applyPullPage(store, teamId, page);
+      await applyPullPage(store, teamId, page, { userId });
     } catch (error) {
       throw new SyncError('apply', error);
     }

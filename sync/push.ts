@@ -26,6 +26,12 @@ export const PUSH_MAX_BYTES = 900_000;
 export interface PushOptions {
   teamId: string;
   clientId: string;
+  /**
+   * The user whose outbox is sent (default: the user the store is open for). Other users'
+   * entries on a shared device are never picked; if someone else opens the store meanwhile, the
+   * push stops at its next device transaction.
+   */
+  userId?: string;
   /** Ops per request, at most 500. */
   batchSize?: number;
   /** Approximate JSON bytes per request. */
@@ -65,16 +71,16 @@ export async function pushOutbox(store: DeviceStore, transport: SyncTransport, o
   const { teamId, clientId } = options;
   const batchSize = Math.max(1, Math.min(options.batchSize ?? SYNC_PUSH_MAX_OPS, SYNC_PUSH_MAX_OPS));
   const maxBytes = options.maxBytes ?? PUSH_MAX_BYTES;
-  const sync = store.syncInternals();
-  const { db } = sync;
+  const sync = 'userId' in options ? store.syncInternals(options.userId) : store.syncInternals();
+  const { db, mine } = sync;
   const summary: PushSummary = { batches: 0, sent: 0, acknowledged: 0, rejected: 0, serverTime: null };
 
   /** Picks the next batch after `afterSeq` and marks it sent, in one transaction. */
   const claim = (afterSeq: number) =>
     sync.transaction(async () => {
       const rows = await db.all<Parameters<typeof toOutboxEntry>[0]>(
-        `SELECT * FROM outbox WHERE team_id = ? AND status = 'pending' AND seq > ? ORDER BY seq LIMIT ?`,
-        [teamId, afterSeq, batchSize],
+        `SELECT * FROM outbox WHERE team_id = ? AND status = 'pending'${mine.sql} AND seq > ? ORDER BY seq LIMIT ?`,
+        [teamId, ...mine.params, afterSeq, batchSize],
       );
       const batch: OutboxEntry[] = [];
       let bytes = BODY_OVERHEAD;
@@ -125,7 +131,7 @@ export async function pushOutbox(store: DeviceStore, transport: SyncTransport, o
           acknowledged.push(entry);
         }
       }
-      await acknowledge(db, acknowledged);
+      await acknowledge(db, acknowledged, sync.owner);
       summary.acknowledged += acknowledged.length;
       sync.receiveClock(reply.serverClock);
       summary.serverTime = reply.serverTime;
@@ -177,7 +183,7 @@ function describeReason(reason: string | undefined): string {
 }
 
 /** Acknowledged entries leave the outbox; their records are now known to the server. */
-async function acknowledge(db: SqlDriver, entries: OutboxEntry[]): Promise<void> {
+async function acknowledge(db: SqlDriver, entries: OutboxEntry[], userId: string | undefined): Promise<void> {
   if (entries.length === 0) return;
   await db.run(`DELETE FROM outbox WHERE seq IN (SELECT value FROM json_each(?))`, [JSON.stringify(entries.map((e) => e.seq))]);
   const upserts = new Map<SyncedTable, Set<string>>();
@@ -207,7 +213,7 @@ async function acknowledge(db: SqlDriver, entries: OutboxEntry[]): Promise<void>
         await db.run(`DELETE FROM sync_shadow WHERE tbl = ? AND record_id = ?`, [e.table, e.recordId]);
       }
     } else if (shadowed.has(`${e.table}/${e.recordId}`)) {
-      await releaseAcknowledged(db, e.table, e.recordId, e.fields);
+      await releaseAcknowledged(db, e.table, e.recordId, e.fields, userId);
     }
   }
 }

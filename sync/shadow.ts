@@ -43,15 +43,20 @@ export async function captureShadow(db: SqlDriver, table: PullTable, recordId: s
   if (changed) await writeShadow(db, table, recordId, shadow);
 }
 
-/** Outbox edits (any status) still waiting for a record: field -> the newest one setting it. */
+/**
+ * Outbox edits (any status) still waiting for a record: field -> the newest one setting it. With
+ * `userId`, only that user's edits count (on a shared device other people's edits are parked and
+ * do not hide anything from the user signed in now).
+ */
 export async function queuedFieldOwners(
   db: SqlDriver,
   table: PullTable,
   recordId: string,
+  userId?: string,
 ): Promise<Map<string, { seq: number; value: unknown }>> {
   const rows = await db.all<{ seq: number; fields: string }>(
-    `SELECT seq, fields FROM outbox WHERE tbl = ? AND record_id = ? AND kind = 'upsert' ORDER BY seq`,
-    [table, recordId],
+    `SELECT seq, fields FROM outbox WHERE tbl = ? AND record_id = ? AND kind = 'upsert'${userId === undefined ? '' : ' AND user_id = ?'} ORDER BY seq`,
+    userId === undefined ? [table, recordId] : [table, recordId, userId],
   );
   const owners = new Map<string, { seq: number; value: unknown }>();
   for (const row of rows) {
@@ -71,10 +76,10 @@ export async function writeFields(db: SqlDriver, table: PullTable, recordId: str
  * After an acknowledged edit left the outbox: fields no later edit touches need no shadow any
  * more; for fields a later edit still hides, the acknowledged value is now the server's.
  */
-export async function releaseAcknowledged(db: SqlDriver, table: PullTable, recordId: string, fields: Fields): Promise<void> {
+export async function releaseAcknowledged(db: SqlDriver, table: PullTable, recordId: string, fields: Fields, userId?: string): Promise<void> {
   const shadow = await readShadow(db, table, recordId);
   if (Object.keys(shadow).length === 0) return;
-  const owners = await queuedFieldOwners(db, table, recordId);
+  const owners = await queuedFieldOwners(db, table, recordId, userId);
   for (const [field, value] of Object.entries(fields)) {
     if (owners.has(field)) shadow[field] = value;
     else delete shadow[field];
@@ -86,9 +91,15 @@ export async function releaseAcknowledged(db: SqlDriver, table: PullTable, recor
  * After a rejected edit was discarded (and left the outbox): each field it set goes back to the
  * newest remaining edit's value, or, with none left, to the server's value from the shadow.
  */
-export async function releaseDiscarded(db: SqlDriver, table: PullTable, recordId: string, discarded: { seq: number; fields: Fields }): Promise<void> {
+export async function releaseDiscarded(
+  db: SqlDriver,
+  table: PullTable,
+  recordId: string,
+  discarded: { seq: number; fields: Fields },
+  userId?: string,
+): Promise<void> {
   const shadow = await readShadow(db, table, recordId);
-  const owners = await queuedFieldOwners(db, table, recordId);
+  const owners = await queuedFieldOwners(db, table, recordId, userId);
   const restore: Fields = {};
   for (const field of Object.keys(discarded.fields)) {
     const owner = owners.get(field);

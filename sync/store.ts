@@ -25,7 +25,8 @@ import {
 } from '../shared/schemas';
 import { SerialQueue, transaction, type SqlDriver, type SqlValue } from './driver';
 import { migrateDevice } from './schema';
-import { captureShadow, releaseDiscarded } from './shadow';
+import { encodeFields } from './fields';
+import { captureShadow, releaseDiscarded, writeFields } from './shadow';
 
 /** A change the store refuses, with a message fit to show the coach. */
 export class StoreError extends Error {}
@@ -57,10 +58,40 @@ export interface OutboxEntry {
  */
 export interface SyncInternals {
   readonly db: SqlDriver;
-  /** One device transaction on the store's write queue; the device clock is saved with it. */
+  /**
+   * One device transaction on the store's write queue; the device clock is saved with it. It
+   * refuses to run (OwnerChanged) once another person opened the store since these internals were
+   * taken: a run started for one user never writes into the next user's rows or outbox.
+   */
   transaction<T>(work: () => Promise<T>): Promise<T>;
   /** Folds a clock value seen from the server into the device clock (saved by the transaction). */
   receiveClock(remote: string): void;
+  /** The user this run works for (undefined: a store never scoped to a user). */
+  readonly owner: string | undefined;
+  /** `AND user_id = ?` (and its parameter) for that user; empty when unscoped. */
+  readonly mine: OwnerFilter;
+  /** The meta keys of this team's sync for that user. */
+  keys(teamId: string): SyncKeys;
+}
+
+/** An SQL condition limiting outbox rows to one user's (empty when the store is not scoped). */
+export interface OwnerFilter {
+  sql: string;
+  params: SqlValue[];
+}
+
+export interface SyncKeys {
+  cursor: string;
+  lastSyncAt: string;
+  resync: string;
+}
+
+/** A sync step noticed that another person opened the device store since it started. */
+export class OwnerChanged extends Error {
+  constructor() {
+    super('Someone else signed in on this device meanwhile; this sync stopped without touching their data.');
+    this.name = 'OwnerChanged';
+  }
 }
 
 type OutboxRow = {
@@ -99,16 +130,41 @@ export const toOutboxEntry = (r: OutboxRow): OutboxEntry => ({
   createdAt: r.created_at,
 });
 
-/** Meta keys the sync keeps per team. */
 /** A device clock within a minute of the server's is left alone (the server clamps beyond that). */
 const CLOCK_TOLERANCE_MS = 60_000;
 
+/**
+ * Meta keys the sync keeps per team and user (the user part is left out only by a store that was
+ * never scoped to a user: tools and tests that never sign in).
+ */
+const scoped = (prefix: string, teamId: string, userId?: string) => (userId === undefined ? `${prefix}:${teamId}` : `${prefix}:${teamId}:${userId}`);
 export const metaKeys = {
-  cursor: (teamId: string) => `cursor:${teamId}`,
-  lastSyncAt: (teamId: string) => `last_sync_at:${teamId}`,
+  cursor: (teamId: string, userId?: string) => scoped('cursor', teamId, userId),
+  lastSyncAt: (teamId: string, userId?: string) => scoped('last_sync_at', teamId, userId),
   /** Set while a full re-sync runs: rows not confirmed by it are swept when it completes. */
-  resync: (teamId: string) => `resync:${teamId}`,
+  resync: (teamId: string, userId?: string) => scoped('resync', teamId, userId),
 };
+/** Prefixes of every per-team sync key: all of them go when the device changes hands. */
+const SYNC_META_PREFIXES = ['cursor:', 'last_sync_at:', 'resync:'];
+
+/** Meta key naming the user whose rows the device holds ('' = nobody; absent = never scoped). */
+export const ROWS_OWNER_KEY = 'rows_owner';
+
+/** Tables holding rows pulled for (or made by) the user the device belongs to right now. */
+const HELD_TABLES = ['observations', 'sessions', 'cues', 'skaters', 'groups', 'sync_shadow'] as const;
+
+/**
+ * The fields an outbox upsert must carry to stand for the record's creation (every column the
+ * table needs): only such ops can put a record back on the device after a hand-over.
+ */
+const CREATE_FIELDS: Record<SyncedTable, readonly string[]> = {
+  observations: ['sessionId', 'skaterId', 'cueId', 'mark', 'createdAt', 'createdBy'],
+  sessions: ['day', 'createdAt', 'createdBy'],
+  cues: ['phase', 'label'],
+};
+
+export const ownerFilter = (owner: string | undefined, column = 'user_id'): OwnerFilter =>
+  owner === undefined ? { sql: '', params: [] } : { sql: ` AND ${column} = ?`, params: [owner] };
 
 export interface RecordInput {
   teamId: string;
@@ -258,6 +314,12 @@ export class DeviceStore {
   private offset = 0;
   /** Device time corrected by what the server said: used for clocks, timestamps and the day. */
   private readonly now: () => number;
+  /**
+   * The user the held rows and the working outbox belong to (meta `rows_owner`): a user id, ''
+   * when nobody is signed in, undefined for a store never scoped (tools and tests that never sign
+   * in, which see the whole device). The app scopes the store before any screen reads it.
+   */
+  private owner: string | undefined;
 
   private constructor(
     private readonly db: SqlDriver,
@@ -271,8 +333,11 @@ export class DeviceStore {
   static async open(db: SqlDriver, options: StoreOptions = {}): Promise<DeviceStore> {
     const store = new DeviceStore(db, options);
     await migrateDevice(db);
-    const meta = await db.all<{ key: string; value: string }>(`SELECT key, value FROM meta WHERE key IN ('device_id', 'hlc', 'clock_offset')`);
+    const meta = await db.all<{ key: string; value: string }>(
+      `SELECT key, value FROM meta WHERE key IN ('device_id', 'hlc', 'clock_offset', '${ROWS_OWNER_KEY}')`,
+    );
     const get = (key: string) => meta.find((m) => m.key === key)?.value;
+    store.owner = get(ROWS_OWNER_KEY);
     store.offset = Number(get('clock_offset') ?? 0) || 0;
     store.deviceId = get('device_id') ?? uuidv7();
     if (!get('device_id')) await db.run(`INSERT INTO meta (key, value) VALUES ('device_id', ?)`, [store.deviceId]);
@@ -295,6 +360,11 @@ export class DeviceStore {
    * from the wrong time. Past one minute of error: the clock is moved, and the changes still
    * waiting to be sent get their clock values moved by the same amount, so each keeps its place
    * in real time. Changes already sent keep theirs (the server may have applied them).
+   *
+   * On a shared device this moves the unsent clocks of every user, not only the signed-in one's:
+   * the error is the device's, and the offset is kept per device, so a user who signs in later
+   * would measure no error any more and their parked changes would keep the wrong time for ever.
+   * Nothing else about their changes is touched (not sent, not counted, not shown).
    */
   async correctClock(askServer: () => Promise<string>): Promise<number> {
     const sentAt = this.physical();
@@ -326,17 +396,112 @@ export class DeviceStore {
     return this.offset;
   }
 
-  /** For the sync modules only (see SyncInternals). */
-  syncInternals(): SyncInternals {
+  /**
+   * For the sync modules only (see SyncInternals). `forUser` is the user the run works for
+   * (left out: whoever the store is open for now); once someone else opens the store, the
+   * internals' transactions refuse to run.
+   */
+  syncInternals(...bound: [forUser: string | undefined] | []): SyncInternals {
+    // An explicit `undefined` binds to an unscoped store (so no default parameter here).
+    const forUser = bound.length > 0 ? bound[0] : this.owner;
     // Sync may drop or re-create session rows and outbox entries: check sessions afresh.
     this.sessionsQueued.clear();
     return {
       db: this.db,
-      transaction: (work) => this.tx(work),
+      transaction: (work) =>
+        this.tx(async () => {
+          if (this.owner !== forUser) throw new OwnerChanged();
+          return work();
+        }),
       receiveClock: (remote) => {
         this.clock.receive(remote);
       },
+      owner: forUser,
+      mine: ownerFilter(forUser),
+      keys: (teamId) => ({
+        cursor: metaKeys.cursor(teamId, forUser),
+        lastSyncAt: metaKeys.lastSyncAt(teamId, forUser),
+        resync: metaKeys.resync(teamId, forUser),
+      }),
     };
+  }
+
+  /** The user the store is open for (null when nobody is signed in or it was never scoped). */
+  get user(): string | null {
+    return this.owner ? this.owner : null;
+  }
+
+  /** The outbox condition for the user the store is open for. */
+  private mine(column = 'user_id'): OwnerFilter {
+    return ownerFilter(this.owner, column);
+  }
+
+  /**
+   * Opens the store for the user who signs in (or for nobody, on sign-out: `null`). The device
+   * holds one person's rows at a time (one database file is all the browser allows): when the
+   * user changes, in ONE transaction, every held row of every synced table, the shadow, and every
+   * cursor and last-sync key go; the outbox stays whole (each entry names its user, and waits,
+   * parked, for that user to come back); then the new user's own waiting creates and edits are
+   * written back into the tables so their board shows them before the first pull. Their next sync
+   * pulls from cursor 0. Opening the store again for the same user changes nothing.
+   * Resolves to true when the held rows were wiped.
+   */
+  async switchUser(userId: string | null): Promise<boolean> {
+    const next = userId ?? '';
+    const before = this.owner;
+    try {
+      return await this.tx(async () => {
+        const [stored] = await this.db.all<{ value: string }>(`SELECT value FROM meta WHERE key = ?`, [ROWS_OWNER_KEY]);
+        this.sessionsQueued.clear();
+        if (stored && stored.value === next) {
+          this.owner = next;
+          return false;
+        }
+        for (const table of HELD_TABLES) await this.db.run(`DELETE FROM ${table}`);
+        await this.db.run(`DELETE FROM meta WHERE ${SYNC_META_PREFIXES.map(() => 'key LIKE ?').join(' OR ')}`, SYNC_META_PREFIXES.map((p) => `${p}%`));
+        await this.db.run(`INSERT INTO meta (key, value) VALUES (?, ?) ON CONFLICT (key) DO UPDATE SET value = excluded.value`, [ROWS_OWNER_KEY, next]);
+        if (next) await this.replayOwnOutbox(next);
+        this.owner = next;
+        return true;
+      });
+    } catch (error) {
+      this.owner = before;
+      throw error;
+    }
+  }
+
+  /** Sign-out on this device: the held rows go, the user's unsent changes stay (parked). */
+  signOut(): Promise<boolean> {
+    return this.switchUser(null);
+  }
+
+  /**
+   * Puts a user's own waiting changes back into the emptied tables, oldest first: a create (an
+   * upsert carrying every field the table needs) inserts the record, a later edit updates it, a
+   * delete hides it. Edits of records the device does not hold wait for the pull, which keeps
+   * their local values (sync/apply.ts).
+   */
+  private async replayOwnOutbox(userId: string) {
+    const rows = await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE user_id = ? ORDER BY seq`, [userId]);
+    for (const entry of rows.map(toOutboxEntry)) {
+      if (entry.kind === 'delete') {
+        if (entry.table === 'observations') await this.db.run(`UPDATE observations SET deleted = 1 WHERE id = ?`, [entry.recordId]);
+        continue;
+      }
+      const [held] = await this.db.all<{ id: string }>(`SELECT id FROM ${entry.table} WHERE id = ?`, [entry.recordId]);
+      if (held) {
+        await writeFields(this.db, entry.table, entry.recordId, entry.fields);
+      } else if (CREATE_FIELDS[entry.table].every((field) => Object.prototype.hasOwnProperty.call(entry.fields, field))) {
+        const { columns, values } = encodeFields(entry.table, entry.fields);
+        await this.db.run(
+          `INSERT INTO ${entry.table} (id, team_id, ${columns.map((c) => `${c}, `).join('')}synced) VALUES (?, ?, ${columns.map(() => '?, ').join('')}0)`,
+          [entry.recordId, entry.teamId, ...values],
+        );
+      } else {
+        continue;
+      }
+      await this.stampRow(entry.table, entry.recordId, entry.hlc);
+    }
   }
 
   async getMeta(key: string): Promise<string | null> {
@@ -344,14 +509,14 @@ export class DeviceStore {
     return row?.value ?? null;
   }
 
-  /** The team's pull cursor (0 before the first pull). */
-  async cursor(teamId: string): Promise<number> {
-    return Number((await this.getMeta(metaKeys.cursor(teamId))) ?? 0);
+  /** The team's pull cursor for the user the store is open for (0 before their first pull). */
+  async cursor(teamId: string, userId: string | undefined = this.owner): Promise<number> {
+    return Number((await this.getMeta(metaKeys.cursor(teamId, userId))) ?? 0);
   }
 
-  /** Server time of the team's last successful sync run, or null if it never synced. */
+  /** Server time of the team's last successful sync run for this user, or null if none yet. */
   lastSyncAt(teamId: string): Promise<string | null> {
-    return this.getMeta(metaKeys.lastSyncAt(teamId));
+    return this.getMeta(metaKeys.lastSyncAt(teamId, this.owner));
   }
 
   close() {
@@ -382,6 +547,7 @@ export class DeviceStore {
     /** The values the edit replaces (kept as the server's value until the edit is acknowledged). */
     previous?: Record<string, unknown>;
   }) {
+    this.assertWriter(op.userId);
     if (op.previous) await captureShadow(this.db, op.table, op.recordId, op.previous);
     // A delete carries its clock under "deleted" so the server can order it against edits.
     const fieldHlc =
@@ -392,6 +558,13 @@ export class DeviceStore {
       [uuidv7(), op.teamId, op.userId, op.table, op.recordId, op.kind, JSON.stringify(op.fields), JSON.stringify(fieldHlc), new Date(this.now()).toISOString()],
     );
     return fieldHlc;
+  }
+
+  /** Changes are made by the user the store is open for, or by nobody. */
+  private assertWriter(userId: string) {
+    if (this.owner !== undefined && userId !== this.owner) {
+      throw new StoreError('This device is open for someone else now: sign in again to record.');
+    }
   }
 
   /** Merges per-field clock values into a row's `hlc` column. */
@@ -493,7 +666,9 @@ export class DeviceStore {
           [id, id],
         );
         if (sent === 0 && synced === 0) {
-          await this.db.run(`DELETE FROM outbox WHERE tbl = 'observations' AND record_id = ?`, [id]);
+          this.assertWriter(userId);
+          const mine = this.mine();
+          await this.db.run(`DELETE FROM outbox WHERE tbl = 'observations' AND record_id = ?${mine.sql}`, [id, ...mine.params]);
           await this.db.run(`DELETE FROM sync_shadow WHERE tbl = 'observations' AND record_id = ?`, [id]);
           await this.db.run(`DELETE FROM observations WHERE id = ?`, [id]);
         } else {
@@ -518,6 +693,7 @@ export class DeviceStore {
    * board alone sends nothing: the session joins the outbox with its first note or edit.
    */
   async startSession(teamId: string, userId: string, day = localDay(this.now())): Promise<BoardSession> {
+    this.assertWriter(userId);
     const id = sessionIdFor(teamId, day);
     const existing = await this.getSession(id);
     if (existing) return existing;
@@ -533,11 +709,15 @@ export class DeviceStore {
     });
   }
 
-  /** Queues the whole session once, before the first change that depends on it. */
+  /**
+   * Queues the whole session once, before the first change that depends on it. Another user's
+   * parked create of the same session does not count: it is sent only when they come back.
+   */
   private async ensureSessionQueued(session: BoardSession, userId: string) {
     const [{ queued }] = await this.db.all<{ queued: number }>(
-      `SELECT (SELECT synced FROM sessions WHERE id = ?) + (SELECT count(*) FROM outbox WHERE tbl = 'sessions' AND record_id = ?) AS queued`,
-      [session.id, session.id],
+      `SELECT (SELECT synced FROM sessions WHERE id = ?)
+            + (SELECT count(*) FROM outbox WHERE tbl = 'sessions' AND record_id = ? AND user_id = ?) AS queued`,
+      [session.id, session.id, userId],
     );
     if (queued > 0) return;
     const { id: _id, teamId: _team, ...fields } = session;
@@ -739,26 +919,37 @@ export class DeviceStore {
     return n;
   }
 
-  /** Changes waiting to be sent (not counting rejected ones, which wait for the coach). */
+  /**
+   * Changes waiting to be sent (not counting rejected ones, which wait for the coach). Only the
+   * signed-in user's: other people's changes parked on a shared device are never counted here.
+   */
   async pendingCount(teamId?: string): Promise<number> {
-    const [{ n }] = teamId
-      ? await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'pending' AND team_id = ?`, [teamId])
-      : await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'pending'`);
-    return n;
+    return this.countOutbox('pending', teamId);
   }
 
-  /** Changes the server refused, oldest first, each with its reason (for the coach to see). */
+  /** Changes the server refused, oldest first, each with its reason (the signed-in user's only). */
   async listRejected(teamId?: string): Promise<OutboxEntry[]> {
-    const rows = teamId
-      ? await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE status = 'rejected' AND team_id = ? ORDER BY seq`, [teamId])
-      : await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE status = 'rejected' ORDER BY seq`);
+    const mine = this.mine();
+    const team = teamId ? ' AND team_id = ?' : '';
+    const rows = await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE status = 'rejected'${team}${mine.sql} ORDER BY seq`, [
+      ...(teamId ? [teamId] : []),
+      ...mine.params,
+    ]);
     return rows.map(toOutboxEntry);
   }
 
   async rejectedCount(teamId?: string): Promise<number> {
-    const [{ n }] = teamId
-      ? await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'rejected' AND team_id = ?`, [teamId])
-      : await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = 'rejected'`);
+    return this.countOutbox('rejected', teamId);
+  }
+
+  private async countOutbox(status: 'pending' | 'rejected', teamId?: string): Promise<number> {
+    const mine = this.mine();
+    const team = teamId ? ' AND team_id = ?' : '';
+    const [{ n }] = await this.db.all<{ n: number }>(`SELECT count(*) AS n FROM outbox WHERE status = ?${team}${mine.sql}`, [
+      status,
+      ...(teamId ? [teamId] : []),
+      ...mine.params,
+    ]);
     return n;
   }
 
@@ -770,10 +961,11 @@ export class DeviceStore {
   async retryRejected(opId: string): Promise<void> {
     this.sessionsQueued.clear();
     await this.tx(async () => {
+      const mine = this.mine();
       const { changes } = await this.db.run(
         `UPDATE outbox SET op_id = ?, status = 'pending', attempts = 0, last_error = NULL, reject_reason = NULL, sent_at = NULL
-         WHERE op_id = ? AND status = 'rejected'`,
-        [uuidv7(), opId],
+         WHERE op_id = ? AND status = 'rejected'${mine.sql}`,
+        [uuidv7(), opId, ...mine.params],
       );
       if (changes === 0) throw new StoreError('That change is no longer waiting');
     });
@@ -787,14 +979,21 @@ export class DeviceStore {
   async discardRejected(opId: string): Promise<void> {
     this.sessionsQueued.clear();
     await this.tx(async () => {
-      const [row] = await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE op_id = ? AND status = 'rejected'`, [opId]);
+      // Only the signed-in user's own refused changes can be given up (another user's are parked).
+      const mine = this.mine();
+      const [row] = await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE op_id = ? AND status = 'rejected'${mine.sql}`, [opId, ...mine.params]);
       if (!row) throw new StoreError('That change is no longer waiting');
       const entry = toOutboxEntry(row);
-      const [first] = await this.db.all<{ seq: number }>(`SELECT min(seq) AS seq FROM outbox WHERE tbl = ? AND record_id = ?`, [entry.table, entry.recordId]);
+      const own = ownerFilter(entry.userId);
+      const [first] = await this.db.all<{ seq: number }>(`SELECT min(seq) AS seq FROM outbox WHERE tbl = ? AND record_id = ?${own.sql}`, [
+        entry.table,
+        entry.recordId,
+        ...own.params,
+      ]);
       const [record] = await this.db.all<{ synced: number }>(`SELECT synced FROM ${entry.table} WHERE id = ?`, [entry.recordId]);
       const isCreate = entry.kind === 'upsert' && first.seq === entry.seq && (!record || record.synced === 0);
       if (isCreate) {
-        await this.db.run(`DELETE FROM outbox WHERE tbl = ? AND record_id = ?`, [entry.table, entry.recordId]);
+        await this.db.run(`DELETE FROM outbox WHERE tbl = ? AND record_id = ?${own.sql}`, [entry.table, entry.recordId, ...own.params]);
         await this.db.run(`DELETE FROM sync_shadow WHERE tbl = ? AND record_id = ?`, [entry.table, entry.recordId]);
         await this.db.run(`DELETE FROM ${entry.table} WHERE id = ?`, [entry.recordId]);
         return;
@@ -802,28 +1001,32 @@ export class DeviceStore {
       await this.db.run(`DELETE FROM outbox WHERE seq = ?`, [entry.seq]);
       if (entry.kind === 'delete') {
         const [{ n }] = await this.db.all<{ n: number }>(
-          `SELECT count(*) AS n FROM outbox WHERE tbl = ? AND record_id = ? AND kind = 'delete'`,
-          [entry.table, entry.recordId],
+          `SELECT count(*) AS n FROM outbox WHERE tbl = ? AND record_id = ? AND kind = 'delete'${own.sql}`,
+          [entry.table, entry.recordId, ...own.params],
         );
         if (n === 0 && entry.table === 'observations') await this.db.run(`UPDATE observations SET deleted = 0 WHERE id = ?`, [entry.recordId]);
         return;
       }
-      await releaseDiscarded(this.db, entry.table, entry.recordId, { seq: entry.seq, fields: entry.fields });
+      await releaseDiscarded(this.db, entry.table, entry.recordId, { seq: entry.seq, fields: entry.fields }, entry.userId);
     });
   }
 
   /** Waiting changes per table, for a status line that says what is waiting. */
   async pendingByTable(): Promise<Record<SyncedTable, number>> {
+    const mine = this.mine();
     const rows = await this.db.all<{ tbl: SyncedTable; n: number }>(
-      `SELECT tbl, count(*) AS n FROM outbox WHERE status = 'pending' GROUP BY tbl`,
+      `SELECT tbl, count(*) AS n FROM outbox WHERE status = 'pending'${mine.sql} GROUP BY tbl`,
+      mine.params,
     );
     const counts: Record<SyncedTable, number> = { observations: 0, sessions: 0, cues: 0 };
     for (const r of rows) counts[r.tbl] = r.n;
     return counts;
   }
 
+  /** The signed-in user's outbox, oldest first. */
   async listOutbox(limit = 500): Promise<OutboxEntry[]> {
-    const rows = await this.db.all<OutboxRow>(`SELECT * FROM outbox ORDER BY seq LIMIT ?`, [limit]);
+    const mine = this.mine();
+    const rows = await this.db.all<OutboxRow>(`SELECT * FROM outbox WHERE 1 = 1${mine.sql} ORDER BY seq LIMIT ?`, [...mine.params, limit]);
     return rows.map(toOutboxEntry);
   }
 

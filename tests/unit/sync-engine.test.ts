@@ -53,6 +53,39 @@ describe('synchronize', () => {
     expect(await store.lastSyncAt(TEAM)).toBeNull();
   });
 
+  it('still pulls when the server answered the push with an error, then reports the push error', async () => {
+    const { server, sync, tap, store } = await setup();
+    await tap();
+    server.put(TEAM, 'skaters', '0193a000-0000-7000-8000-0000000000a9', { displayName: 'New skater', groupId: null, hasAccount: false });
+    const failures = [new ServerUnavailable(), new TransportError('The server answered 409.', 409), new Error('reply could not be settled')];
+    for (const failure of failures) {
+      server.transport.push = async () => {
+        throw failure;
+      };
+      const pullsBefore = server.pullCalls;
+      const error = await sync().catch((e) => e);
+      expect(error).toBeInstanceOf(SyncError);
+      expect(error).toMatchObject({ step: 'push', cause: failure });
+      expect(server.pullCalls).toBeGreaterThan(pullsBefore);
+    }
+    expect((await store.listSkaters(TEAM)).map((s) => s.displayName)).toContain('New skater');
+    expect(await store.lastSyncAt(TEAM)).not.toBeNull();
+    expect(await store.pendingCount()).toBe(2);
+  });
+
+  it('never sends a rejected op again by itself, and keeps pulling', async () => {
+    const { server, sync, tap, store } = await setup();
+    const [bad] = await tap();
+    server.judge = (op) => (op.recordId === bad.id ? 'permission' : null);
+    const sent: string[] = [];
+    const push = server.transport.push;
+    server.transport.push = (body) => (sent.push(...body.ops.map((op) => op.recordId)), push(body));
+    for (let i = 0; i < 3; i += 1) await sync();
+    expect(sent.filter((id) => id === bad.id)).toHaveLength(1);
+    expect(await store.rejectedCount()).toBe(1);
+    expect(server.pullCalls).toBe(3);
+  });
+
   it('names the step that failed: pull', async () => {
     const { server, sync } = await setup();
     const unavailable = new ServerUnavailable();
