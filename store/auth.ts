@@ -13,6 +13,7 @@ import {
   type SignUpInput,
 } from '../shared/schemas';
 import { apiRequest, apiRequestParsed } from './api';
+import { releaseDevice } from './device-owner';
 import { useSession } from './session';
 
 export const authKeys = {
@@ -64,7 +65,9 @@ export function useSignOut() {
   return useMutation({
     mutationFn: () => apiRequest<void>('/api/auth/sign-out', { method: 'POST', skipRefresh: true }),
     // Sign out on this device even if the server cannot be reached: the person asked to leave.
-    onSettled: () => {
+    // The rows they could read leave the device first; their unsent changes stay, parked for them.
+    onSettled: async () => {
+      await releaseDevice();
       queryClient.clear();
       signOutLocally();
     },

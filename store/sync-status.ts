@@ -78,6 +78,8 @@ export function runSync(teamId: string, onChanged?: () => void): Promise<SyncRes
         store,
         transport: httpSyncTransport,
         teamId,
+        // Only this user's outbox and cursor; the run stops if someone else opens the device.
+        userId,
         // The server ties a client id to one user: a device shared by two coaches is two clients.
         clientId: uuidv5(`${store.clientId}/${userId}`, CLIENT_NAMESPACE),
         onProgress: (progress) => useSyncStatus.setState({ progress }),

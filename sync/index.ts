@@ -39,6 +39,12 @@ export function openDeviceStore(): Promise<DeviceStore> {
   return opening;
 }
 
+/** The store if this tab has it open (or is opening it), else null. */
+export async function openedDeviceStore(): Promise<DeviceStore | null> {
+  if (!opening) return null;
+  return opening.catch(() => null);
+}
+
 /** The open store; only valid after openDeviceStore() resolved (the device gate ensures it). */
 export async function deviceStore(): Promise<DeviceStore> {
   if (!opening) throw new Error('The device store is not open in this tab');

@@ -14,12 +14,12 @@ import { Pressable, StyleSheet, View, type View as ViewType } from 'react-native
 import { SafeAreaView } from 'react-native-safe-area-context';
 
 import { roleLabels } from '../../shared/schemas';
-import { useSignOut } from '../../store/auth';
 import { boardKeys } from '../../store/board';
 import { useSyncTriggers } from '../../store/sync-status';
+import { SignOutButton } from '../auth/sign-out-button';
 import { SyncPanel, SyncSummary } from '../sync/sync-control';
 import { useActiveMembership, useSession } from '../../store/session';
-import { Button, Text, colors, layout, radius, spacing, tapTarget, useBreakpoint } from '../ui';
+import { Text, colors, layout, radius, spacing, tapTarget, useBreakpoint } from '../ui';
 import { SectionIcon, type CoachSection } from './tab-icons';
 
 const sections: { name: CoachSection; href: '/board' | '/clock' | '/review' | '/squad'; label: string }[] = [
@@ -56,19 +56,6 @@ const SectionButton = forwardRef<ViewType, SectionButtonProps>(function SectionB
     </Pressable>
   );
 });
-
-function SignOutButton() {
-  const signOut = useSignOut();
-  return (
-    <Button
-      label="Sign out"
-      variant="quiet"
-      testID="sign-out"
-      loading={signOut.isPending}
-      onPress={() => signOut.mutate()}
-    />
-  );
-}
 
 export function CoachShell() {
   const wide = useBreakpoint() === 'wide';

@@ -3,19 +3,26 @@
  * holds it. A second tab says plainly that Boardside is open elsewhere and offers to take over;
  * the tab that hands over says so too. Never a blank page or a raw storage error.
  *
+ * Whose notebook: the device holds one person's rows at a time. Before the area renders, the store
+ * is opened for the signed-in user (store/device-owner.ts): if someone else used the device last,
+ * their rows are wiped first (their unsent changes stay, parked for them). This runs again when a
+ * different person signs in within the same tab.
+ *
  * Handing over: the browser's SQLite keeps its file handles for as long as its worker lives, so
  * closing the database is not enough. The tab that steps aside finishes its queued writes,
  * closes, remembers (for this tab only) that it moved, and reloads; the reload ends the worker and
  * frees the file for the other tab.
  */
 import { useQueryClient } from '@tanstack/react-query';
-import { useCallback, useEffect, type ReactNode } from 'react';
+import { useCallback, useEffect, useState, type ReactNode } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { closeDeviceStore, isDatabaseBusy, openDeviceStore } from '../../sync';
 import { claimTab, takeOver } from '../../sync/tab-lock';
 import { boardKeys } from '../../store/board';
 import { useDevice } from '../../store/device';
+import { openDeviceFor } from '../../store/device-owner';
+import { useSession } from '../../store/session';
 import { Banner, Button, Card, Heading, Loading, Screen, Text, spacing } from '../ui';
 
 /** Set in a tab that handed the database to another tab, so its reload does not grab it back. */
@@ -27,6 +34,9 @@ export function DeviceGate({ children }: { children: ReactNode }) {
   const status = useDevice((s) => s.status);
   const error = useDevice((s) => s.error);
   const client = useQueryClient();
+  const userId = useSession((s) => s.user?.id ?? null);
+  /** The user the open store holds rows for (children render only once it is this user). */
+  const [openFor, setOpenFor] = useState<string | null>(null);
 
   const leave = useCallback(async () => {
     useDevice.getState().set('moved');
@@ -73,6 +83,22 @@ export function DeviceGate({ children }: { children: ReactNode }) {
     };
   }, [leave, open]);
 
+  useEffect(() => {
+    if (status !== 'ready' || !userId) return;
+    let cancelled = false;
+    void openDeviceFor(userId).then(
+      () => {
+        if (!cancelled) setOpenFor(userId);
+      },
+      (e: unknown) => {
+        if (!cancelled) useDevice.getState().set('failed', e instanceof Error ? e.message : String(e));
+      },
+    );
+    return () => {
+      cancelled = true;
+    };
+  }, [status, userId]);
+
   const useHere = async () => {
     sessionStorage.removeItem(MOVED_KEY);
     useDevice.getState().set('opening');
@@ -83,7 +109,9 @@ export function DeviceGate({ children }: { children: ReactNode }) {
     await open();
   };
 
-  if (status === 'ready') return <>{children}</>;
+  if (status === 'ready') {
+    return openFor !== null && openFor === userId ? <>{children}</> : <Loading label="Opening your notebook on this device…" testID="device-opening" />;
+  }
   if (status === 'opening') return <Loading label="Opening this device's notebook…" testID="device-opening" />;
 
   const title =

@@ -9,12 +9,12 @@ import { useQueryClient } from '@tanstack/react-query';
 import { useMemo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
-import { useSignOut } from '../../store/auth';
 import { useConnectivity } from '../../store/connectivity';
 import { useActiveMembership, useSession } from '../../store/session';
 import { runSync } from '../../store/sync-status';
 import { refreshToday, todayOnDevice, useAcknowledge, useSkaterDays, useSkaterName, useSkaterNotes } from '../../store/today';
 import { Banner, Button, Heading, Screen, Text, colors, layout, radius, spacing, useBreakpoint } from '../ui';
+import { SignOutButton } from '../auth/sign-out-button';
 import { DayHeader, RecentDays } from './day-chooser';
 import { groupByPhase, longDay, offeredDays, plural, shortDay, spokenScript } from './format';
 import { NoteCard } from './note-card';
@@ -33,7 +33,6 @@ export function TodayScreen() {
   const serverOnline = useConnectivity((s) => s.online);
   const offline = signedInOffline || !serverOnline;
   const membership = useActiveMembership();
-  const signOut = useSignOut();
 
   const teamId = membership?.teamId ?? '';
   const skaterId = membership?.skaterId ?? '';
@@ -148,7 +147,7 @@ export function TodayScreen() {
   );
 
   const signOutButton = (
-    <Button label="Sign out" variant="quiet" testID="sign-out" loading={signOut.isPending} onPress={() => signOut.mutate()} style={styles.start} />
+    <SignOutButton style={styles.start} />
   );
 
   if (wide) {
