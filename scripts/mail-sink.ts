@@ -1,14 +1,16 @@
 /**
  * Local SMTP sink for development and tests: accepts every message on loopback and writes it,
- * unchanged, as an .eml file into MAIL_DIR. Nothing leaves the machine.
+ * unchanged, as an .eml file into MAIL_DIR. Nothing leaves the machine. The messages hold
+ * invitation and password-reset links: the folder and files are readable by their owner only.
  */
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { chmodSync, mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { SMTPServer } from 'smtp-server';
 
 const port = Number(process.env.SMTP_PORT ?? 2525);
 const dir = path.resolve(process.env.MAIL_DIR ?? '.data/mail');
-mkdirSync(dir, { recursive: true });
+mkdirSync(dir, { recursive: true, mode: 0o700 });
+chmodSync(dir, 0o700);
 
 let counter = 0;
 const server = new SMTPServer({
@@ -22,7 +24,7 @@ const server = new SMTPServer({
     stream.on('end', () => {
       counter += 1;
       const name = `${Date.now()}-${process.pid}-${String(counter).padStart(5, '0')}.eml`;
-      writeFileSync(path.join(dir, name), Buffer.concat(chunks));
+      writeFileSync(path.join(dir, name), Buffer.concat(chunks), { mode: 0o600 });
       callback();
     });
   },

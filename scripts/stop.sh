@@ -5,4 +5,4 @@ for pidfile in "$DATA"/*.pid; do
   [ -e "$pidfile" ] || continue
   daemon_down "$(basename "$pidfile" .pid)"
 done
-pg_down
+pg_down   # both clusters (start and test)

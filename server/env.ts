@@ -4,6 +4,7 @@
  */
 import { isIP } from 'node:net';
 import { z } from 'zod';
+import { TOMBSTONE_RETENTION_DAYS } from '../shared/schemas/sync';
 
 const int = (fallback: number, min: number, max: number) =>
   z.coerce.number().int().min(min).max(max).default(fallback);
@@ -75,6 +76,10 @@ const envSchema = z.object({
   WEB_DIST: z.string().optional(),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   DB_POOL_SIZE: int(10, 1, 100),
+  // Retention (server/services/sync/retention.ts): a pass at start, then every N hours (at most a
+  // week: Node timers hold up to ~24.8 days). op_log is kept at least as long as tombstones.
+  RETENTION_INTERVAL_HOURS: int(6, 1, 168),
+  OP_LOG_RETENTION_DAYS: int(TOMBSTONE_RETENTION_DAYS + 30, TOMBSTONE_RETENTION_DAYS, 3650),
 });
 
 export type Env = z.infer<typeof envSchema>;

@@ -1,12 +1,14 @@
 /**
  * `npm run db:seed`: load the demo club into DATABASE_URL (with --if-empty: only when it is not
- * there yet), then print the demo sign-ins.
+ * there yet), then print the demo sign-ins. With --remove: delete the demo club and every account
+ * of its e-mail domain instead (their password is published; a server listening beyond loopback
+ * refuses to start while they exist, see server/seed/exposure.ts).
  */
 import { createDataSource } from '../data-source';
 import { hashPassword } from '../lib/passwords';
 import { insertDefaultCues } from '../services/cues';
 import { nextSeqs } from '../services/sync/counter';
-import { DEMO_PASSWORD, demoCueIds, demoGroups, demoSkaters, demoTeam, demoUsers } from '../seed/demo';
+import { DEMO_DOMAIN, DEMO_PASSWORD, demoCueIds, demoGroups, demoSkaters, demoTeam, demoUsers } from '../seed/demo';
 
 async function main() {
   const url = process.env.DATABASE_URL;
@@ -14,6 +16,19 @@ async function main() {
   const dataSource = await createDataSource(url, 2).initialize();
   try {
     await dataSource.runMigrations({ transaction: 'each' });
+    if (process.argv.includes('--remove')) {
+      const removed = await dataSource.transaction(async (tx) => {
+        await tx.query(`DELETE FROM teams WHERE id = $1`, [demoTeam.id]);
+        const [{ n }]: { n: string }[] = await tx.query(
+          `WITH gone AS (DELETE FROM users WHERE id = ANY($1::uuid[]) OR lower(email) LIKE '%@' || $2 RETURNING id)
+           SELECT count(*) AS n FROM gone`,
+          [demoUsers.map((u) => u.id), DEMO_DOMAIN],
+        );
+        return Number(n);
+      });
+      console.log(`removed ${demoTeam.name} and ${removed} demo account(s)`);
+      return;
+    }
     const present = (await dataSource.query(`SELECT 1 FROM teams WHERE id = $1`, [demoTeam.id])).length > 0;
     if (present && process.argv.includes('--if-empty')) {
       console.log('demo data already present');
