@@ -449,17 +449,33 @@ export class DeviceStore {
   async switchUser(userId: string | null): Promise<boolean> {
     const next = userId ?? '';
     const before = this.owner;
+    const storedOwner = async () =>
+      (await this.db.all<{ value: string }>(`SELECT value FROM meta WHERE key = ?`, [ROWS_OWNER_KEY]))[0]?.value;
+    // The common case (the same person again: every app start) writes nothing.
+    const same = await this.queue.run(async () => {
+      if ((await storedOwner()) !== next) return false;
+      this.owner = next;
+      this.sessionsQueued.clear();
+      return true;
+    });
+    if (same) return false;
     try {
       return await this.tx(async () => {
-        const [stored] = await this.db.all<{ value: string }>(`SELECT value FROM meta WHERE key = ?`, [ROWS_OWNER_KEY]);
         this.sessionsQueued.clear();
-        if (stored && stored.value === next) {
+        if ((await storedOwner()) === next) {
           this.owner = next;
           return false;
         }
-        for (const table of HELD_TABLES) await this.db.run(`DELETE FROM ${table}`);
-        await this.db.run(`DELETE FROM meta WHERE ${SYNC_META_PREFIXES.map(() => 'key LIKE ?').join(' OR ')}`, SYNC_META_PREFIXES.map((p) => `${p}%`));
-        await this.db.run(`INSERT INTO meta (key, value) VALUES (?, ?) ON CONFLICT (key) DO UPDATE SET value = excluded.value`, [ROWS_OWNER_KEY, next]);
+        // One batch (one round trip to the browser's database worker). Values are literals:
+        // table names and prefixes are constants, the owner is quoted.
+        const quote = (text: string) => `'${text.replace(/'/g, "''")}'`;
+        await this.db.exec(
+          [
+            ...HELD_TABLES.map((table) => `DELETE FROM ${table};`),
+            `DELETE FROM meta WHERE ${SYNC_META_PREFIXES.map((prefix) => `key LIKE ${quote(`${prefix}%`)}`).join(' OR ')};`,
+            `INSERT INTO meta (key, value) VALUES (${quote(ROWS_OWNER_KEY)}, ${quote(next)}) ON CONFLICT (key) DO UPDATE SET value = excluded.value;`,
+          ].join('\n'),
+        );
         if (next) await this.replayOwnOutbox(next);
         this.owner = next;
         return true;
