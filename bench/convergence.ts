@@ -1,7 +1,8 @@
 /**
  * The full-size convergence proof (shared/SYNC.md "How it is proven" 1): 20 clients x 500 ops by
  * default, real device stores (sql.js) running the real sync engine against an in-process server
- * on the real PostgreSQL, with 20% of requests and 10% of replies lost, late requests, random
+ * on the real PostgreSQL (coaches, skaters, a device shared by a coach and a skater; the scenario
+ * of tests/integration/support/convergence.ts), with 20% of requests and 10% of replies lost, late requests, random
  * delays, and a quarter of the device clocks +/-10 minutes. Prints the totals (ops, lost,
  * duplicated, resurrected, time); exits 1 if anything was lost, duplicated, resurrected or differs.
  *
@@ -45,15 +46,25 @@ async function main() {
     const result = await runConvergence({ app: server.app, dataSource: server.dataSource, endpoint }, steps, {
       clients: CLIENTS,
       faultSeed,
-      batchSize: 25,
-      pageSize: 200,
+      // The sizes of the jest test (tests/integration/sync-convergence.test.ts).
+      batchSize: 100,
+      pageSize: 1000,
+      switchPercent: 2,
       log: (line) => console.log(`  ${line}`),
     });
     console.log(describeResult(result));
-    const problems = [...result.lost, ...result.duplicated, ...result.resurrected, ...result.mismatches, ...result.unexpected];
+    const problems = [
+      ...result.lost,
+      ...result.duplicated,
+      ...result.resurrected,
+      ...result.mismatches,
+      ...result.viewMismatches,
+      ...result.leaks,
+      ...result.unexpected,
+    ];
     console.log(
       `TOTAL ops=${result.ops} lost=${result.lost.length} duplicated=${result.duplicated.length} resurrected=${result.resurrected.length} ` +
-        `mismatches=${result.mismatches.length} time=${(result.ms / 1000).toFixed(1)}s`,
+        `mismatches=${result.mismatches.length} leaks=${result.leaks.length} time=${(result.ms / 1000).toFixed(1)}s`,
     );
     if (problems.length > 0) {
       console.error(problems.slice(0, 20).join('\n'));

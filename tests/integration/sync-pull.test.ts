@@ -23,7 +23,24 @@ afterAll(async () => {
   await server.close();
 });
 
-const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
+/**
+ * Waits until some backend is blocked by `holderPid` while writing team_counters (the push's
+ * Push.1 waiting for the counter's row lock); fails loudly if that never happens. A fixed sleep
+ * would pass just as well if the push had not started yet, or had not been stopped by the lock.
+ */
+async function waitForBlockedCounterWriter(observer: Client, holderPid: number, timeoutMs = 10_000): Promise<{ pid: number; query: string }> {
+  const deadline = Date.now() + timeoutMs;
+  for (;;) {
+    const { rows } = await observer.query<{ pid: number; query: string }>(
+      `SELECT pid, query FROM pg_stat_activity
+        WHERE $1 = ANY(pg_blocking_pids(pid)) AND wait_event_type = 'Lock' AND query ILIKE '%team_counters%'`,
+      [holderPid],
+    );
+    if (rows.length > 0) return rows[0];
+    if (Date.now() > deadline) throw new Error(`no push blocked on the team counter held by backend ${holderPid} within ${timeoutMs} ms`);
+    await new Promise((resolve) => setTimeout(resolve, 10));
+  }
+}
 
 describe('server order', () => {
   it('a pull while another transaction holds the team counter misses no row afterwards', async () => {
@@ -34,10 +51,15 @@ describe('server order', () => {
     // A slow writer: takes the next number, writes its row, and holds its transaction open.
     const holder = new Client({ connectionString: process.env.DATABASE_URL });
     await holder.connect();
+    const observer = new Client({ connectionString: process.env.DATABASE_URL });
+    await observer.connect();
     const slowId = uuidv7();
     let pushing: Promise<{ status: number }> | undefined;
     const fastOps = [newObservation(team, dev), newObservation(team, dev)];
     try {
+      const {
+        rows: [{ pid: holderPid }],
+      } = await holder.query<{ pid: number }>('SELECT pg_backend_pid() AS pid');
       await holder.query('BEGIN');
       const { rows } = await holder.query(`UPDATE team_counters SET seq = seq + 1 WHERE team_id = $1 RETURNING seq`, [team.teamId]);
       await holder.query(
@@ -48,13 +70,18 @@ describe('server order', () => {
 
       // A push starts meanwhile: it must wait for the counter, not take a number past the open one.
       pushing = push(server.app, dev, team.teamId, fastOps).then((res) => res);
-      await sleep(300);
+      // The push is really waiting for the counter (not merely not started yet) before the pull.
+      const blocked = await waitForBlockedCounterWriter(observer, holderPid);
+      expect(blocked.query).toMatch(/INSERT INTO team_counters/);
       const during = await pullAll(server.app, team.head, team.teamId, start.cursor);
       expect(during.changes).toEqual([]);
       expect(during.cursor).toBe(start.cursor);
+      // Still blocked after the pull: the pull did not wait for it, and it has not gone past the lock.
+      expect((await waitForBlockedCounterWriter(observer, holderPid, 1000)).pid).toBe(blocked.pid);
       await holder.query('COMMIT');
     } finally {
       await holder.end();
+      await observer.end();
     }
     expect((await pushing!).status).toBe(200);
 

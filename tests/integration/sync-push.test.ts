@@ -4,6 +4,7 @@
  * mid-batch, a cut or broken body, create + delete in one batch, a device a year ahead, per-field
  * merge (fast-check, fixed seed), delete wins, and a 500-op batch.
  */
+import http from 'node:http';
 import net from 'node:net';
 import type { AddressInfo } from 'node:net';
 import fc from 'fast-check';
@@ -32,6 +33,28 @@ import {
 
 let server: TestServer;
 let team: SyncTeam;
+
+/** Polls `condition` every 5 ms; fails naming what it waited for if it does not hold within `timeoutMs`. */
+async function waitFor(what: string, condition: () => boolean, timeoutMs = 5000): Promise<void> {
+  const deadline = Date.now() + timeoutMs;
+  while (!condition()) {
+    if (Date.now() > deadline) throw new Error(`timed out after ${timeoutMs} ms waiting for ${what}`);
+    await new Promise((resolve) => setTimeout(resolve, 5));
+  }
+}
+
+/** `promise`, or a failure naming what it waited for after `timeoutMs`. */
+async function within<T>(timeoutMs: number, what: string, promise: Promise<T>): Promise<T> {
+  let timer: NodeJS.Timeout | undefined;
+  const timeout = new Promise<never>((_, reject) => {
+    timer = setTimeout(() => reject(new Error(`timed out after ${timeoutMs} ms waiting for ${what}`)), timeoutMs);
+  });
+  try {
+    return await Promise.race([promise, timeout]);
+  } finally {
+    clearTimeout(timer);
+  }
+}
 
 beforeAll(async () => {
   server = await startTestServer();
@@ -174,25 +197,37 @@ describe('no partially applied batch', () => {
     const dev = device(team.head);
     const op = newObservation(team, dev);
     const text = JSON.stringify({ clientId: dev.clientId, teamId: team.teamId, ops: [op] });
-    const listener = server.app.listen(0, '127.0.0.1');
-    await new Promise((resolve) => listener.once('listening', resolve));
+    // The app behind a server that lets the test see each request arrive and end.
+    const seen: { req: http.IncomingMessage; closed: Promise<void> }[] = [];
+    const listener = http.createServer((req, res) => {
+      seen.push({ req, closed: new Promise<void>((resolve) => res.once('close', () => resolve())) });
+      server.app(req, res);
+    });
+    await new Promise<void>((resolve) => listener.listen(0, '127.0.0.1', resolve));
     try {
       const { port } = listener.address() as AddressInfo;
-      await new Promise<void>((resolve) => {
-        const socket = net.connect(port, '127.0.0.1', () => {
-          socket.write(
-            `POST /api/sync/push HTTP/1.1\r\nHost: 127.0.0.1\r\nAuthorization: ${team.head.auth.Authorization}\r\n` +
-              `Content-Type: application/json\r\nContent-Length: ${Buffer.byteLength(text)}\r\n\r\n${text.slice(0, text.length / 2)}`,
-          );
-          setTimeout(() => socket.destroy(), 50);
-        });
+      const head =
+        `POST /api/sync/push HTTP/1.1\r\nHost: 127.0.0.1\r\nAuthorization: ${team.head.auth.Authorization}\r\n` +
+        `Content-Type: application/json\r\nContent-Length: ${Buffer.byteLength(text)}\r\n\r\n`;
+      const sent = head + text.slice(0, text.length / 2);
+      const socket = net.connect(port, '127.0.0.1');
+      const gone = new Promise<void>((resolve) => {
         socket.on('close', () => resolve());
         socket.on('error', () => resolve());
       });
-      await new Promise((resolve) => setTimeout(resolve, 150));
+      await new Promise<void>((resolve) => socket.once('connect', () => resolve()));
+      socket.write(sent);
+      // The server has the headers and half the body (not merely "50 ms went by") before the cut.
+      await waitFor('the server to read the headers and half the body', () => seen.length === 1 && seen[0].req.socket.bytesRead >= Buffer.byteLength(sent));
+      socket.destroy();
+      await gone;
+      // The server saw the request end without its body, and is done with it.
+      await within(5000, 'the server to close the cut request', seen[0].closed);
+      expect(seen[0].req.complete).toBe(false);
     } finally {
       await new Promise((resolve) => listener.close(resolve));
     }
+    expect(seen).toHaveLength(1);
     expect(await opLogCount([op.opId])).toBe(0);
     expect(await observationCount([op.recordId])).toBe(0);
   });

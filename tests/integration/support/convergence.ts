@@ -1,31 +1,43 @@
 /**
  * The convergence proof (shared/SYNC.md "How it is proven" 1) as a scenario both the jest test and
- * bench/convergence.ts run: one team (a head coach with two devices, the other clients invited
- * coaches), N device stores on sql.js running the real engine against the real server, a
- * generated schedule of taps and sync runs, faults injected by seeded RNGs, then faults off and
- * every client syncing until quiet (twice). The result lists what was lost, duplicated,
- * resurrected, and where a device differs from the server; the caller asserts or prints.
+ * bench/convergence.ts run: one team (a head coach with two devices, invited coaches, skaters with
+ * their own phones who acknowledge their notes, and a club tablet that a coach and a skater use in
+ * turn, signing in and out while syncs run), N device stores on sql.js running the real engine
+ * against the real server, a generated schedule of taps and sync runs, faults injected by seeded
+ * RNGs, then faults off and every client syncing until quiet (twice).
+ *
+ * The result lists what was lost, duplicated, resurrected; where a device differs from what the
+ * server lets its user see (a skater: only their own notes, a private note's text blank, their
+ * own profile and group - computed here from the coach's view, and checked against the server's
+ * own pull for the skater); what a skater's device holds that the skater may not see; and sync
+ * failures that no injected fault explains. The caller asserts or prints.
  */
 import fc from 'fast-check';
 import type { Express } from 'express';
 import type { DataSource } from 'typeorm';
-import { StoreError } from '../../../sync/store';
+import { v7 as uuidv7 } from 'uuid';
+import type { Skater } from '../../../shared/schemas';
+import { OwnerChanged, StoreError } from '../../../sync/store';
 import { SyncBusy, SyncError } from '../../../sync/errors';
-import { TransportError } from '../../../sync/transport';
 import type { SyncResult } from '../../../sync/engine';
 import { addSkater, inviteAndAccept, signUpCoach, type Account } from '../helpers';
 import {
+  InjectedFault,
   PROOF_FAULTS,
+  STATE_TABLES,
   deviceState,
   diffTable,
   openDevice,
   randomFaults,
   seededRng,
   serverState,
+  skaterLeaks,
+  skaterView,
   sleep,
   type Endpoint,
   type FaultRates,
   type SimDevice,
+  type SyncedState,
 } from './device-client';
 
 /** One scheduled step: client `client` does the action picked by `action` (0-99) with `pick`, then maybe syncs. */
@@ -49,6 +61,8 @@ export interface ConvergenceOptions {
   rates?: FaultRates;
   batchSize?: number;
   pageSize?: number;
+  /** Share of the shared device's steps after which the other person signs in (percent, default 2). */
+  switchPercent?: number;
   /** Skew of the clock-skewed quarter of the clients (+ and - alternately). */
   skewMs?: number;
   log?: (line: string) => void;
@@ -56,6 +70,8 @@ export interface ConvergenceOptions {
 
 export interface ConvergenceResult {
   clients: number;
+  /** Who each client is: head, coach, skater, or shared (a coach and a skater in turn). */
+  roles: string[];
   ops: number;
   opsByKind: Record<string, number>;
   /** Ops the store refused because the record had gone meanwhile (e.g. deleted by a pull). */
@@ -67,17 +83,29 @@ export interface ConvergenceResult {
   lost: string[];
   duplicated: string[];
   resurrected: string[];
-  /** Per device, where it differs from the server after the final syncs. */
+  /** Per device (and per user of the shared device), where it differs from what the server lets that user see. */
   mismatches: string[];
-  /** Sync failures not caused by an injected fault (a failed apply, a refused request...). */
+  /** Where the server's own pull for a skater differs from the contract's view of a skater (computed from the coach's). */
+  viewMismatches: string[];
+  /** Rows or texts a skater's device holds that the skater may not see. */
+  leaks: string[];
+  /** Sync failures not caused by an injected fault (a failed apply, a refused request, a 5xx...). */
   unexpected: string[];
   pendingLeft: number;
   rejectedLeft: number;
+  /** Outbox rows of anyone left on any device (parked ones of a signed-out user included). */
+  outboxRowsLeft: number;
   tombstoneRowsLeft: number;
   syncRuns: number;
   syncFailures: number;
+  /** Runs of the shared device stopped because the other person signed in meanwhile. */
+  ownerChanges: number;
+  /** Sign-ins on the shared device while the steps ran (each one switches its user). */
+  switches: number;
   quietRounds: number;
   faults: { requests: number; droppedRequests: number; lateRequests: number; droppedReplies: number; duplicateAnswers: number };
+  /** Wall time of each phase (ms). */
+  phases: Record<string, number>;
   ms: number;
 }
 
@@ -88,21 +116,70 @@ export interface ConvergenceContext {
 }
 
 const DAYS = ['2026-01-15', '2026-01-16'];
+const GROUPS = ['Group Noord', 'Group Zuid', 'Group Oost'];
 
-/** A team with a head coach, `coaches` invited coaches and six skaters; cues are the default library. */
-export async function makeCoachTeam(app: Express, label: string, coaches: number) {
+/**
+ * A team with a head coach, `coaches` invited coaches, six skaters in two groups (a third group
+ * stays empty) and `skaterAccounts` of them signed up; cues are the default library. Groups have no
+ * route yet: they are written in SQL, numbered by the team counter (its trigger) like any write.
+ */
+export async function makeCoachTeam(app: Express, dataSource: DataSource, label: string, coaches: number, skaterAccounts = 0) {
   const head = await signUpCoach(app, `${label}head`);
-  for (let i = 0; i < 6; i += 1) await addSkater(app, head, `Skater ${label} ${i + 1}`);
+  const skaters: Skater[] = [];
+  for (let i = 0; i < 6; i += 1) skaters.push(await addSkater(app, head, `Skater ${label} ${i + 1}`));
+  const groupIds = GROUPS.map(() => uuidv7());
+  await dataSource.transaction(async (tx) => {
+    for (const [i, name] of GROUPS.entries()) {
+      await tx.query(`INSERT INTO skater_groups (team_id, id, name, sort_order) VALUES ($1, $2, $3, $4)`, [head.teamId, groupIds[i], name, i]);
+    }
+    for (const [i, skater] of skaters.entries()) {
+      await tx.query(`UPDATE skaters SET group_id = $3 WHERE team_id = $1 AND id = $2`, [head.teamId, skater.id, groupIds[i % 2]]);
+    }
+  });
   const invited: Account[] = [];
   for (let i = 0; i < coaches; i += 1) invited.push(await inviteAndAccept(app, head, 'coach', { label: `${label}c${i}` }));
-  return { teamId: head.teamId, head, coaches: invited };
+  const skaterUsers: { account: Account; skaterId: string; groupId: string }[] = [];
+  for (let i = 0; i < skaterAccounts; i += 1) {
+    const account = await inviteAndAccept(app, head, 'skater', { skaterId: skaters[i].id, label: `${label}s${i}` });
+    skaterUsers.push({ account, skaterId: skaters[i].id, groupId: groupIds[i % 2] });
+  }
+  return { teamId: head.teamId, head, coaches: invited, skaters, skaterUsers, groupIds };
+}
+
+type Role = 'head' | 'coach' | 'skater';
+
+/** Someone who signs in on a device. */
+interface Person {
+  account: Account;
+  role: Role;
+  /** For a skater: their profile and group. */
+  skaterId?: string;
+  groupId?: string;
 }
 
 interface Client {
   index: number;
   device: SimDevice;
-  head: boolean;
+  /** Who may sign in on it: one person, or two in turn (the shared device). */
+  people: Person[];
+  /** Who is signed in now. */
+  person: Person;
+  shared: boolean;
   running: Promise<void> | null;
+}
+
+/**
+ * Who each client is. Client 0 is the head coach's phone, the last client the head coach's tablet;
+ * every 7th client from the 4th is a skater's phone; client 6 is a club tablet shared in turn by a
+ * coach and a skater (from 8 clients); the others are coaches' phones.
+ */
+export function rolesOf(n: number): ('head' | 'coach' | 'skater' | 'shared')[] {
+  return Array.from({ length: n }, (_, i) => {
+    if (i === 0 || (n >= 4 && i === n - 1)) return 'head';
+    if (n >= 8 && i === 6) return 'shared';
+    if (n >= 4 && i % 7 === 3) return 'skater';
+    return 'coach';
+  });
 }
 
 export async function runConvergence(ctx: ConvergenceContext, steps: Step[], options: ConvergenceOptions): Promise<ConvergenceResult> {
@@ -110,22 +187,40 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
   const rates = options.rates ?? PROOF_FAULTS;
   const log = options.log ?? (() => undefined);
   const skew = options.skewMs ?? 10 * 60_000;
+  const switchPercent = options.switchPercent ?? 2;
   const started = Date.now();
+  const phases: Record<string, number> = {};
+  let phaseStart = started;
+  const phase = (name: string) => {
+    const now = Date.now();
+    phases[name] = now - phaseStart;
+    phaseStart = now;
+    log(`${name}: ${phases[name]} ms`);
+  };
 
-  // People: client 0 is the head coach's phone, the last client (with 4+ clients) the head coach's
-  // tablet, every other client an invited coach.
-  const headDevices = n >= 4 ? 2 : 1;
-  const team = await makeCoachTeam(ctx.app, `conv${faultSeed % 100000}`, n - headDevices);
+  const roles = rolesOf(n);
+  const coachSeats = roles.filter((r) => r === 'coach' || r === 'shared').length;
+  const skaterSeats = roles.filter((r) => r === 'skater' || r === 'shared').length;
+  const team = await makeCoachTeam(ctx.app, ctx.dataSource, `conv${faultSeed % 100000}`, coachSeats, skaterSeats);
   const { teamId } = team;
+  const coachesLeft = [...team.coaches];
+  const skatersLeft = team.skaterUsers.map((s): Person => ({ account: s.account, role: 'skater', skaterId: s.skaterId, groupId: s.groupId }));
+  const headPerson: Person = { account: team.head, role: 'head' };
   const skewed = Math.max(1, Math.round(n / 4));
   const clients: Client[] = [];
   for (let i = 0; i < n; i += 1) {
-    const head = i === 0 || (headDevices === 2 && i === n - 1);
-    const account = head ? team.head : team.coaches[i - 1];
+    const people: Person[] =
+      roles[i] === 'head'
+        ? [headPerson]
+        : roles[i] === 'coach'
+          ? [{ account: coachesLeft.shift()!, role: 'coach' }]
+          : roles[i] === 'skater'
+            ? [skatersLeft.shift()!]
+            : [{ account: coachesLeft.shift()!, role: 'coach' }, skatersLeft.shift()!];
     // Every 4th client (a quarter) runs 10 minutes fast or slow.
     const skewIndex = Math.floor(i / 4);
     const skewMs = i % 4 === 1 && skewIndex < skewed ? (skewIndex % 2 === 0 ? skew : -skew) : 0;
-    const device = await openDevice(ctx.endpoint, account, {
+    const device = await openDevice(ctx.endpoint, people[0].account, {
       label: `client${i}`,
       teamId,
       skewMs,
@@ -133,9 +228,9 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
       batchSize: options.batchSize,
       pageSize: options.pageSize,
     });
-    clients.push({ index: i, device, head, running: null });
+    clients.push({ index: i, device, people, person: people[0], shared: people.length > 1, running: null });
   }
-  log(`team ready: ${n} clients (${clients.filter((c) => c.device.skewMs !== 0).length} skewed), ${Date.now() - started} ms`);
+  phase('team');
 
   // Signing in loads the team: one clean sync each before the taps start.
   for (const c of clients) {
@@ -143,6 +238,7 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
     await c.device.sync();
     c.device.transport.enabled = true;
   }
+  phase('first sync');
 
   const created = new Map<string, number>();
   const deleted = new Set<string>();
@@ -150,9 +246,16 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
   let skipped = 0;
   let syncRuns = 0;
   let syncFailures = 0;
-  /** Failures that faults do not explain (anything but a lost request or reply): bugs. */
+  let ownerChanges = 0;
+  let switches = 0;
+  /** Failures that faults do not explain (anything but an injected fault): bugs. */
   const unexpected: string[] = [];
   const count = (kind: string) => (opsByKind[kind] = (opsByKind[kind] ?? 0) + 1);
+  const describe = (error: unknown) => {
+    const cause = error instanceof SyncError ? error.cause : undefined;
+    const text = (e: unknown) => (e instanceof Error ? `${e.name}: ${e.message}` : String(e));
+    return `${text(error)}${cause ? ` (cause ${text(cause)})` : ''}`;
+  };
 
   const kick = (c: Client) => {
     if (c.running) return;
@@ -164,8 +267,14 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
         (error) => {
           syncFailures += 1;
           if (error instanceof SyncBusy) return;
-          if (error instanceof SyncError && error.step !== 'apply' && error.cause instanceof TransportError) return;
-          unexpected.push(`client${c.index}: ${error instanceof Error ? error.message : String(error)}`);
+          const cause = error instanceof SyncError ? error.cause : error;
+          if (error instanceof SyncError && error.step !== 'apply' && cause instanceof InjectedFault) return;
+          // The other person signed in on the shared device while this run went: it stops.
+          if (c.shared && (cause instanceof OwnerChanged || error instanceof OwnerChanged)) {
+            ownerChanges += 1;
+            return;
+          }
+          unexpected.push(`client${c.index}: ${describe(error)}`);
         },
       )
       .finally(() => {
@@ -180,23 +289,41 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
     }
   };
 
-  const one = async <T>(db: SimDevice, sql: string, params: (string | number)[], pick: number): Promise<T | undefined> => {
-    const [{ n: total }] = await db.driver.all<{ n: number }>(`SELECT count(*) AS n FROM (${sql})`, params);
-    if (total === 0) return undefined;
-    const [row] = await db.driver.all<T>(`${sql} LIMIT 1 OFFSET ?`, [...params, pick % total]);
-    return row;
+  /**
+   * One row of `table` matching `where`, picked by `pick`: the first at or after a rowid chosen
+   * from `pick` (wrapping to the first). An index seek, not a count and a sorted scan per tap: with
+   * thousands of notes on each of 20 devices those scans were a tenth of the proof's time.
+   */
+  const one = async <T>(db: SimDevice, columns: string, table: string, where: string, params: (string | number)[], pick: number): Promise<T | undefined> => {
+    const [{ top }] = await db.driver.all<{ top: number | null }>(`SELECT max(rowid) AS top FROM ${table}`);
+    if (top === null) return undefined;
+    const sql = `SELECT ${columns} FROM ${table} WHERE ${where} AND rowid >= ? ORDER BY rowid LIMIT 1`;
+    const [row] = await db.driver.all<T>(sql, [...params, pick % (top + 1)]);
+    return row ?? (await db.driver.all<T>(sql, [...params, 0]))[0];
   };
 
   for (const [stepIndex, step] of steps.entries()) {
     const c = clients[step.client % n];
-    const { device } = c;
+    const { device, person } = c;
     const { store, userId } = device;
     const { pick, action } = step;
     try {
-      if (action < 40) {
+      if (person.role === 'skater') {
+        // A skater acknowledges one of their notes (60%) or reads their page.
+        const row = action < 60 ? await one<{ id: string }>(device, 'id', 'observations', 'team_id = ? AND deleted = 0 AND acknowledged_at IS NULL', [teamId], pick) : undefined;
+        if (row) {
+          await store.acknowledgeObservation(row.id, userId);
+          count('acknowledge');
+        } else {
+          await store.listForSkater(teamId, person.skaterId!, DAYS[pick % DAYS.length]);
+          count('read');
+        }
+      } else if (action < 40) {
         // Record: one skater (30%) or a group of 2-3 (10%), on one of two rink days.
         const skaters = (await store.listSkaters(teamId)).map((s) => s.id);
         const cues = (await store.listCues(teamId)).filter((q) => !q.archived);
+        // Right after a sign-in on the shared device the board is empty until the first pull.
+        if (skaters.length === 0 || cues.length === 0) throw new StoreError('nothing loaded yet');
         const group = action >= 30 ? 2 + (pick % 2) : 1;
         const chosen = [...new Set(Array.from({ length: group }, (_, k) => skaters[(pick + k * 5) % skaters.length]))];
         const session = await store.startSession(teamId, userId, DAYS[pick % DAYS.length]);
@@ -207,39 +334,43 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
           skaterIds: chosen,
           cueId: cues[(pick >>> 3) % cues.length].id,
           mark: pick & 4 ? 'good' : 'needs_work',
-          note: pick % 5 === 0 ? `n${c.index}.${stepIndex}` : '',
+          // Note texts in brackets: distinct, so a search for one never finds another.
+          note: pick % 5 === 0 ? `[n${c.index}.${stepIndex}]` : '',
           noteShared: (pick & 8) !== 0,
         });
         for (const o of made) created.set(o.id, c.index);
         count(group > 1 ? 'recordGroup' : 'record');
       } else if (action < 72) {
-        // Edit the mark (18%), the note (8%) or both (6%) of a note this device shows.
-        const row = await one<{ id: string; mark: string }>(
-          device,
-          `SELECT id, mark FROM observations WHERE team_id = ? AND deleted = 0 ORDER BY id`,
-          [teamId],
-          pick,
-        );
+        // Edit the mark (16%), the note (6%), who sees the note (4%) or mark and note (6%) of a note this device shows.
+        const row = await one<{ id: string; mark: string; note_shared: number }>(device, 'id, mark, note_shared', 'observations', 'team_id = ? AND deleted = 0', [teamId], pick);
         if (!row) {
           skipped += 1;
         } else {
           const flip = row.mark === 'good' ? 'needs_work' : 'good';
-          const patch = action < 58 ? { mark: flip } : action < 66 ? { note: `e${c.index}.${stepIndex}` } : { mark: flip, note: `b${c.index}.${stepIndex}` };
-          await store.updateObservation(row.id, userId, patch as { mark?: 'good' | 'needs_work'; note?: string });
-          count(action < 58 ? 'editMark' : action < 66 ? 'editNote' : 'editBoth');
+          const kind = action < 56 ? 'editMark' : action < 62 ? 'editNote' : action < 66 ? 'editShared' : 'editBoth';
+          const patch =
+            kind === 'editMark'
+              ? { mark: flip }
+              : kind === 'editNote'
+                ? { note: `[e${c.index}.${stepIndex}]` }
+                : kind === 'editShared'
+                  ? { noteShared: !row.note_shared }
+                  : { mark: flip, note: `[b${c.index}.${stepIndex}]` };
+          await store.updateObservation(row.id, userId, patch as { mark?: 'good' | 'needs_work'; note?: string; noteShared?: boolean });
+          count(kind);
         }
       } else if (action < 84) {
         // Delete a note this device shows (12%).
-        const row = await one<{ id: string }>(device, `SELECT id FROM observations WHERE team_id = ? AND deleted = 0 ORDER BY id`, [teamId], pick);
+        const row = await one<{ id: string }>(device, 'id', 'observations', 'team_id = ? AND deleted = 0', [teamId], pick);
         if (!row) skipped += 1;
         else {
           await store.removeObservations([row.id], userId);
           deleted.add(row.id);
           count('delete');
         }
-      } else if (action < 90 || !c.head) {
+      } else if (action < 90 || person.role !== 'head') {
         // Session title or rink (6%; and what a plain coach does instead of cue work).
-        const row = await one<{ id: string }>(device, `SELECT id FROM sessions WHERE team_id = ? ORDER BY id`, [teamId], pick);
+        const row = await one<{ id: string }>(device, 'id', 'sessions', 'team_id = ?', [teamId], pick);
         if (!row) skipped += 1;
         else {
           await store.updateSession(row.id, userId, pick & 1 ? { title: `t${c.index}.${stepIndex}` } : { rink: `r${c.index}.${stepIndex}` });
@@ -247,7 +378,7 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
         }
       } else {
         // Head coach: rename or move a cue (10% of the head coach's devices' steps).
-        const cue = await one<{ id: string }>(device, `SELECT id FROM cues WHERE team_id = ? AND archived = 0 ORDER BY phase, sort_order, id`, [teamId], pick);
+        const cue = await one<{ id: string }>(device, 'id', 'cues', 'team_id = ? AND archived = 0', [teamId], pick);
         if (!cue) skipped += 1;
         else if (pick & 1) {
           await store.renameCue(cue.id, userId, `Cue ${c.index}.${stepIndex}`);
@@ -263,6 +394,16 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
       skipped += 1;
     }
 
+    // The shared device changes hands now and then (2% of its steps by default), even while a sync runs.
+    if (c.shared && step.sync >= 100 - switchPercent) {
+      const next = c.people[(c.people.indexOf(c.person) + 1) % c.people.length];
+      await device.signIn(next.account);
+      c.person = next;
+      switches += 1;
+      // Opening the board syncs (the run going for the previous person stops at its next step).
+      kick(c);
+    }
+
     // Sync runs interleaved with the taps, in the background: this client (22%), a burst of
     // several clients at once (3%), or wait for every run going (2%).
     if (step.sync < 22) kick(c);
@@ -271,13 +412,25 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
     // Let the network and the running syncs move between taps.
     await (pick % 7 === 0 ? sleep(1) : new Promise((resolve) => setImmediate(resolve)));
   }
+  phase('steps');
 
-  // Faults off: wait for what is in flight (late requests included), then sync until quiet, twice.
+  // Faults off: wait for what is in flight (late requests included).
   await settle();
   for (const c of clients) {
     await c.device.transport.drainGhosts();
     c.device.transport.enabled = false;
   }
+  // Each person of the shared device sends what waits for them (parked while the other used it).
+  const signInAndSync = async (c: Client, person: Person) => {
+    if (c.person !== person) {
+      await c.device.signIn(person.account);
+      c.person = person;
+    }
+    await c.device.sync();
+    syncRuns += 1;
+  };
+  for (const c of clients) if (c.shared) for (const person of c.people) await signInAndSync(c, person);
+  // Then every client syncs until quiet, twice.
   let quietRounds = 0;
   for (let time = 0; time < 2; time += 1) {
     for (let round = 0; ; round += 1) {
@@ -292,20 +445,61 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
       if (!busy) break;
     }
   }
+  phase('final syncs');
 
-  // Compare.
-  const server = await serverState(ctx.endpoint, team.head.session.accessToken, teamId);
-  const sqlRows = (await ctx.dataSource.query(`SELECT id, deleted_at FROM observations WHERE team_id = $1`, [teamId])) as { id: string; deleted_at: Date | null }[];
+  // Compare. What each person may see, by the contract, from the head coach's pull.
+  const coachView = await serverState(ctx.endpoint, team.head.session.accessToken, teamId);
+  const sqlRows = (await ctx.dataSource.query(`SELECT id, deleted_at, note, note_shared FROM observations WHERE team_id = $1`, [teamId])) as {
+    id: string;
+    deleted_at: Date | null;
+    note: string;
+    note_shared: boolean;
+  }[];
+  const privateTexts = [...new Set(sqlRows.filter((r) => !r.note_shared && r.note !== '').map((r) => r.note))];
   const survivors = [...created.keys()].filter((id) => !deleted.has(id));
-  const devices = await Promise.all(clients.map((c) => deviceState(c.device.driver, teamId)));
+  const viewFor = (person: Person): SyncedState => (person.role === 'skater' ? skaterView(coachView, person.skaterId!) : coachView);
 
   const lost = new Set<string>();
-  for (const id of survivors) {
-    if (!server.observations.has(id)) lost.add(`${id} (server)`);
-    devices.forEach((d, i) => {
-      if (!d.observations.has(id)) lost.add(`${id} (client${i})`);
-    });
+  const resurrected: string[] = [];
+  const mismatches: string[] = [];
+  const viewMismatches: string[] = [];
+  const leaks: string[] = [];
+  let tombstoneRowsLeft = 0;
+  for (const id of survivors) if (!coachView.observations.has(id)) lost.add(`${id} (server)`);
+  for (const id of deleted) if (coachView.observations.has(id) || sqlRows.some((r) => r.id === id && r.deleted_at === null)) resurrected.push(`${id} (server)`);
+
+  /** Checks one device as the person signed in on it now. */
+  const check = async (c: Client, label: string) => {
+    const want = viewFor(c.person);
+    const got = await deviceState(c.device.driver, teamId);
+    tombstoneRowsLeft += got.tombstones.length;
+    for (const id of survivors) if (want.observations.has(id) && !got.observations.has(id)) lost.add(`${id} (${label})`);
+    for (const id of deleted) if (got.observations.has(id)) resurrected.push(`${id} (${label})`);
+    for (const table of STATE_TABLES) mismatches.push(...diffTable(table, want[table], got[table]).map((line) => `${label} ${line}`));
+    if (c.person.role === 'skater') {
+      const readable = new Set([...want.observations.values()].map((o) => o.note as string));
+      const secrets = privateTexts.filter((text) => !readable.has(text));
+      leaks.push(...(await skaterLeaks(c.device.driver, c.person.skaterId!, c.person.groupId ?? null, secrets)).map((line) => `${label}: ${line}`));
+    }
+  };
+  for (const c of clients) await check(c, `client${c.index} (${c.person.role})`);
+  // The shared device once more for each person, the skater last (right after the coach used it).
+  for (const c of clients) {
+    if (!c.shared) continue;
+    const order = [...c.people].sort((a, b) => (a.role === 'skater' ? 1 : 0) - (b.role === 'skater' ? 1 : 0));
+    for (const person of order) {
+      await signInAndSync(c, person);
+      await check(c, `client${c.index} (shared, ${person.role} again)`);
+    }
   }
+  // The server's own filter for every skater account agrees with the contract's view.
+  const skaterPeople = clients.flatMap((c) => c.people).filter((p) => p.role === 'skater');
+  for (const person of skaterPeople) {
+    const pulled = await serverState(ctx.endpoint, person.account.session.accessToken, teamId);
+    const want = skaterView(coachView, person.skaterId!);
+    for (const table of STATE_TABLES) viewMismatches.push(...diffTable(table, want[table], pulled[table]).map((line) => `skater ${person.skaterId} pull: ${line}`));
+  }
+
   const duplicated: string[] = [];
   const seen = new Map<string, number>();
   for (const r of sqlRows) seen.set(r.id, (seen.get(r.id) ?? 0) + 1);
@@ -313,35 +507,22 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
   const live = sqlRows.filter((r) => r.deleted_at === null);
   for (const r of live) if (!created.has(r.id)) duplicated.push(`${r.id} (live on the server, never created by a client)`);
   if (live.length !== survivors.length) duplicated.push(`server has ${live.length} live observations for ${survivors.length} surviving creates`);
-  const resurrected: string[] = [];
-  for (const id of deleted) {
-    if (server.observations.has(id) || live.some((r) => r.id === id)) resurrected.push(`${id} (server)`);
-    devices.forEach((d, i) => {
-      if (d.observations.has(id)) resurrected.push(`${id} (client${i})`);
-    });
-  }
-  const mismatches: string[] = [];
-  devices.forEach((d, i) => {
-    mismatches.push(
-      ...[
-        ...diffTable('observations', server.observations, d.observations),
-        ...diffTable('sessions', server.sessions, d.sessions),
-        ...diffTable('cues', server.cues, d.cues),
-      ].map((line) => `client${i} ${line}`),
-    );
-  });
 
   let pendingLeft = 0;
   let rejectedLeft = 0;
+  let outboxRowsLeft = 0;
   for (const c of clients) {
     pendingLeft += await c.device.store.pendingCount();
     rejectedLeft += await c.device.store.rejectedCount();
+    outboxRowsLeft += (await c.device.driver.all<{ n: number }>(`SELECT count(*) AS n FROM outbox`))[0].n;
   }
   const stats = clients.map((c) => c.device.transport.stats);
   const sum = (pick: (s: (typeof stats)[number]) => number) => stats.reduce((total, s) => total + pick(s), 0);
+  phase('compare');
 
   return {
     clients: n,
+    roles,
     ops: Object.values(opsByKind).reduce((a, b) => a + b, 0) + skipped,
     opsByKind,
     skipped,
@@ -353,12 +534,17 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
     duplicated,
     resurrected,
     mismatches,
+    viewMismatches,
+    leaks,
     unexpected,
     pendingLeft,
     rejectedLeft,
-    tombstoneRowsLeft: devices.reduce((total, d) => total + d.tombstones.length, 0),
+    outboxRowsLeft,
+    tombstoneRowsLeft,
     syncRuns,
     syncFailures,
+    ownerChanges,
+    switches,
     quietRounds,
     faults: {
       requests: sum((s) => s.push + s.pull),
@@ -367,19 +553,21 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
       droppedReplies: sum((s) => s.droppedReplies),
       duplicateAnswers: sum((s) => s.duplicate),
     },
+    phases,
     ms: Date.now() - started,
   };
 }
 
 /** One line per figure, for the test log and the bench. */
 export function describeResult(r: ConvergenceResult): string {
+  const seats = r.roles.reduce<Record<string, number>>((acc, role) => ({ ...acc, [role]: (acc[role] ?? 0) + 1 }), {});
   return [
-    `clients ${r.clients}, ops ${r.ops} (${Object.entries(r.opsByKind).map(([k, v]) => `${k} ${v}`).join(', ')}, skipped ${r.skipped})`,
+    `clients ${r.clients} (${Object.entries(seats).map(([k, v]) => `${k} ${v}`).join(', ')}), ops ${r.ops} (${Object.entries(r.opsByKind).map(([k, v]) => `${k} ${v}`).join(', ')}, skipped ${r.skipped})`,
     `creates ${r.creates}, deletes ${r.deletes}, surviving ${r.survivors}, live on the server ${r.serverLive}`,
-    `lost ${r.lost.length}, duplicated ${r.duplicated.length}, resurrected ${r.resurrected.length}, device/server mismatches ${r.mismatches.length}, unexpected sync failures ${r.unexpected.length}`,
-    `outbox left: pending ${r.pendingLeft}, rejected ${r.rejectedLeft}; tombstone rows left ${r.tombstoneRowsLeft}`,
-    `sync runs ${r.syncRuns} (${r.syncFailures} failed under faults), final quiet rounds ${r.quietRounds}`,
+    `lost ${r.lost.length}, duplicated ${r.duplicated.length}, resurrected ${r.resurrected.length}, device/server mismatches ${r.mismatches.length}, skater view mismatches ${r.viewMismatches.length}, leaks ${r.leaks.length}, unexpected sync failures ${r.unexpected.length}`,
+    `outbox left: pending ${r.pendingLeft}, rejected ${r.rejectedLeft}, rows ${r.outboxRowsLeft}; tombstone rows left ${r.tombstoneRowsLeft}`,
+    `sync runs ${r.syncRuns} (${r.syncFailures} failed under faults, ${r.ownerChanges} stopped by a sign-in), shared device sign-ins ${r.switches}, final quiet rounds ${r.quietRounds}`,
     `requests ${r.faults.requests}: dropped ${r.faults.droppedRequests}, late ${r.faults.lateRequests}, replies dropped ${r.faults.droppedReplies}, duplicate answers ${r.faults.duplicateAnswers}`,
-    `time ${(r.ms / 1000).toFixed(1)} s`,
+    `time ${(r.ms / 1000).toFixed(1)} s (${Object.entries(r.phases).map(([k, v]) => `${k} ${(v / 1000).toFixed(1)} s`).join(', ')})`,
   ].join('\n');
 }

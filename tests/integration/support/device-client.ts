@@ -13,6 +13,7 @@
  * Used by tests/integration/sync-convergence.test.ts and bench/convergence.ts.
  */
 import http from 'node:http';
+import { v5 as uuidv5 } from 'uuid';
 import type { AddressInfo } from 'node:net';
 import type { Express } from 'express';
 import { pullReplySchema, pushReplySchema, type PullReply, type PushBody, type PushReply } from '../../../shared/schemas/sync';
@@ -130,6 +131,9 @@ export interface CallRecord {
   fault: Fault;
 }
 
+/** A failure this transport made up on purpose (anything else a run meets is real). */
+export class InjectedFault extends TransportError {}
+
 export class FaultyTransport implements SyncTransport {
   policy: FaultPolicy;
   /** Off: every call goes straight through, no delay. */
@@ -151,8 +155,8 @@ export class FaultyTransport implements SyncTransport {
   }
 
   push(body: PushBody): Promise<PushReply> {
-    return this.call('push', body, () =>
-      this.http('/api/sync/push', { method: 'POST', body: JSON.stringify(body), headers: { 'content-type': 'application/json' } }),
+    return this.call('push', body, (token) =>
+      this.http('/api/sync/push', token, { method: 'POST', body: JSON.stringify(body), headers: { 'content-type': 'application/json' } }),
     ).then((reply) => {
       const parsed = pushReplySchema.parse(reply);
       for (const r of parsed.results) this.stats[r.status] += 1;
@@ -162,7 +166,7 @@ export class FaultyTransport implements SyncTransport {
 
   pull(q: PullQuery): Promise<PullReply> {
     const query = new URLSearchParams({ teamId: q.teamId, cursor: String(q.cursor), limit: String(q.limit) });
-    return this.call('pull', q, () => this.http(`/api/sync/pull?${query.toString()}`, { method: 'GET' })).then((reply) => pullReplySchema.parse(reply));
+    return this.call('pull', q, (token) => this.http(`/api/sync/pull?${query.toString()}`, token, { method: 'GET' })).then((reply) => pullReplySchema.parse(reply));
   }
 
   /** The server's time, asked straight (no faults): lets a device with a wrong clock correct it. */
@@ -176,7 +180,10 @@ export class FaultyTransport implements SyncTransport {
     while (this.ghosts.length > 0) await Promise.allSettled(this.ghosts.splice(0));
   }
 
-  private async call(kind: CallKind, sent: PushBody | PullQuery, send: () => Promise<{ status: number; body: unknown }>): Promise<unknown> {
+  private async call(kind: CallKind, sent: PushBody | PullQuery, send: (token: string) => Promise<{ status: number; body: unknown }>): Promise<unknown> {
+    // The token of whoever is signed in when the call starts: a late request still speaks for the
+    // user whose run sent it, even if someone else signed in on the device meanwhile.
+    const token = this.token();
     const index = this.counts[kind]++;
     this.stats[kind] += 1;
     const fault = this.enabled ? this.policy({ kind, index }) : {};
@@ -185,28 +192,31 @@ export class FaultyTransport implements SyncTransport {
     if (fault.delayMs) await sleep(fault.delayMs);
     if (fault.dropRequest) {
       this.stats.droppedRequests += 1;
-      throw new TransportError(`${kind} request lost (injected)`);
+      throw new InjectedFault(`${kind} request lost (injected)`);
     }
     if (fault.late) {
       this.stats.lateRequests += 1;
-      this.ghosts.push(sleep(fault.lateMs ?? 5).then(send));
-      throw new TransportError(`${kind} timed out (injected; the request arrives later)`);
+      const ghost = sleep(fault.lateMs ?? 5).then(() => send(token));
+      // Nobody waits for a late request's answer but drainGhosts; a failed one must not crash the run.
+      ghost.catch(() => undefined);
+      this.ghosts.push(ghost);
+      throw new InjectedFault(`${kind} timed out (injected; the request arrives later)`);
     }
     entry.sent = sent;
-    const { status, body } = await send();
+    const { status, body } = await send(token);
     entry.status = status;
     if (status !== 200) throw toSyncError(status, body);
     entry.reply = body as PushReply | PullReply;
     if (fault.replyDelayMs) await sleep(fault.replyDelayMs);
     if (fault.dropReply) {
       this.stats.droppedReplies += 1;
-      throw new TransportError(`${kind} reply lost after the server answered (injected)`);
+      throw new InjectedFault(`${kind} reply lost after the server answered (injected)`);
     }
     return body;
   }
 
-  private async http(path: string, init: RequestInit): Promise<{ status: number; body: unknown }> {
-    const res = await fetch(`${this.base}${path}`, { ...init, headers: { ...(init.headers as Record<string, string>), authorization: `Bearer ${this.token()}` } });
+  private async http(path: string, token: string, init: RequestInit): Promise<{ status: number; body: unknown }> {
+    const res = await fetch(`${this.base}${path}`, { ...init, headers: { ...(init.headers as Record<string, string>), authorization: `Bearer ${token}` } });
     const text = await res.text();
     let body: unknown = null;
     try {
@@ -234,16 +244,33 @@ export interface ClientAccount {
   session: { accessToken: string; user: { id: string } };
 }
 
+/** Client ids are per (device, user), as the app makes them: the server ties a client id to one user. */
+const CLIENT_NAMESPACE = '6b1d5c2e-3f4a-5b6c-8d7e-9f0a1b2c3d4e';
+export const clientIdFor = (deviceId: string, userId: string) => uuidv5(`${deviceId}/${userId}`, CLIENT_NAMESPACE);
+
 export interface SimDevice {
   label: string;
+  /** The user signed in on the device now. */
   userId: string;
+  account: ClientAccount;
   teamId: string;
   driver: SqlDriver;
   store: DeviceStore;
   transport: FaultyTransport;
   /** Physical clock offset of this device (ms). */
   skewMs: number;
+  /** The client id the device pushes under for the user signed in now (op_log.client_id). */
+  readonly clientId: string;
+  /**
+   * One sync run for the user signed in when it starts (their outbox, cursor, client id and token,
+   * whoever signs in meanwhile).
+   */
   sync(options?: { batchSize?: number; pageSize?: number }): Promise<SyncResult>;
+  /**
+   * Someone else signs in on this device (a shared tablet): the store is opened for them (sync/store.ts
+   * switchUser), and later runs and requests speak for them.
+   */
+  signIn(account: ClientAccount): Promise<boolean>;
 }
 
 export interface DeviceOptions {
@@ -257,6 +284,8 @@ export interface DeviceOptions {
   pageSize?: number;
   /** Reopen an existing database (a restarted app). */
   driver?: SqlDriver;
+  /** Leave the store unscoped (the old single-user form); default: opened for the account, as the app does. */
+  unscoped?: boolean;
 }
 
 export async function openDevice(endpoint: Endpoint, account: ClientAccount, options: DeviceOptions): Promise<SimDevice> {
@@ -264,23 +293,39 @@ export async function openDevice(endpoint: Endpoint, account: ClientAccount, opt
   const skewMs = options.skewMs ?? 0;
   const now = options.now ?? (() => Date.now() + skewMs);
   const store = await DeviceStore.open(driver, { now });
-  const transport = new FaultyTransport(endpoint.base, () => account.session.accessToken, options.policy);
+  if (!options.unscoped) await store.switchUser(account.session.user.id);
+  let signedIn = account;
+  const transport = new FaultyTransport(endpoint.base, () => signedIn.session.accessToken, options.policy);
   const device: SimDevice = {
     label: options.label,
     userId: account.session.user.id,
+    account,
     teamId: options.teamId,
     driver,
     store,
     transport,
     skewMs,
-    sync: (o = {}) =>
-      synchronize({
+    get clientId() {
+      return options.unscoped ? store.clientId : clientIdFor(store.clientId, signedIn.session.user.id);
+    },
+    sync: (o = {}) => {
+      const userId = signedIn.session.user.id;
+      return synchronize({
         store,
         transport,
         teamId: options.teamId,
+        ...(options.unscoped ? {} : { userId, clientId: clientIdFor(store.clientId, userId) }),
         batchSize: o.batchSize ?? options.batchSize,
         pageSize: o.pageSize ?? options.pageSize,
-      }),
+      });
+    },
+    signIn: async (next) => {
+      const wiped = await store.switchUser(next.session.user.id);
+      signedIn = next;
+      device.account = next;
+      device.userId = next.session.user.id;
+      return wiped;
+    },
   };
   return device;
 }
@@ -294,7 +339,11 @@ export interface SyncedState {
   observations: TableState;
   sessions: TableState;
   cues: TableState;
+  skaters: TableState;
+  groups: TableState;
 }
+
+export const STATE_TABLES = ['observations', 'sessions', 'cues', 'skaters', 'groups'] as const;
 
 const bool = (v: unknown) => v === true || v === 1;
 
@@ -324,33 +373,92 @@ export async function deviceState(driver: SqlDriver, teamId: string): Promise<Sy
   for (const r of await driver.all<Record<string, string | number>>(`SELECT id, phase, label, sort_order, archived FROM cues WHERE team_id = ?`, [teamId])) {
     cues.set(String(r.id), { phase: r.phase, label: r.label, sortOrder: Number(r.sort_order), archived: bool(r.archived) });
   }
-  return { observations, sessions, cues, tombstones };
+  const skaters: TableState = new Map();
+  for (const r of await driver.all<Record<string, string | number | null>>(`SELECT id, display_name, group_id, has_account FROM skaters WHERE team_id = ?`, [teamId])) {
+    skaters.set(String(r.id), { displayName: r.display_name, groupId: r.group_id ?? null, hasAccount: bool(r.has_account) });
+  }
+  const groups: TableState = new Map();
+  for (const r of await driver.all<Record<string, string | number>>(`SELECT id, name, sort_order FROM groups WHERE team_id = ?`, [teamId])) {
+    groups.set(String(r.id), { name: r.name, sortOrder: Number(r.sort_order) });
+  }
+  return { observations, sessions, cues, skaters, groups, tombstones };
 }
 
 /** The server's live records as a coach pulls them from cursor 0 (no faults, pages of 1000). */
 export async function serverState(endpoint: Endpoint, token: string, teamId: string): Promise<SyncedState & { pulled: number }> {
   const transport = new FaultyTransport(endpoint.base, () => token);
   const latest = new Map<string, { seq: number; table: string; id: string; fields: Fields | null }>();
+  // Evictions (records this caller may no longer see) remove what earlier pages gave.
+  const evicted = (page: { evictions: { table: string; id: string }[] }) => {
+    for (const e of page.evictions) latest.delete(`${e.table}:${e.id}`);
+  };
   let cursor = 0;
   let pulled = 0;
   for (;;) {
     const page = await transport.pull({ teamId, cursor, limit: 1000 });
     for (const c of page.changes) latest.set(`${c.table}:${c.id}`, { seq: c.serverSeq, table: c.table, id: c.id, fields: c.fields });
     for (const t of page.tombstones) latest.set(`${t.table}:${t.id}`, { seq: t.serverSeq, table: t.table, id: t.id, fields: null });
+    evicted(page);
     pulled += page.changes.length + page.tombstones.length;
     cursor = page.nextCursor;
     if (!page.hasMore) break;
   }
-  const state: SyncedState = { observations: new Map(), sessions: new Map(), cues: new Map() };
+  const state: SyncedState = { observations: new Map(), sessions: new Map(), cues: new Map(), skaters: new Map(), groups: new Map() };
   for (const row of latest.values()) {
     if (!row.fields) continue;
     const target = (state as unknown as Record<string, TableState>)[row.table];
     if (!target) continue;
     const fields = { ...row.fields };
     if (row.table === 'observations') fields.acknowledgedAt = fields.acknowledgedAt ?? null;
+    if (row.table === 'skaters') fields.groupId = fields.groupId ?? null;
     target.set(row.id, fields);
   }
   return { ...state, pulled };
+}
+
+/**
+ * What a skater (or their guardian) may see of a team, computed from a coach's view by the
+ * contract (shared/SYNC.md "Pull"; shared/sync-tables.ts viewerRows): their own notes only, a
+ * private note's text blank; the team's sessions and cues; their own profile; their own group.
+ */
+export function skaterView(coach: SyncedState, skaterId: string): SyncedState {
+  const own = coach.skaters.get(skaterId);
+  const groupId = (own?.groupId as string | null | undefined) ?? null;
+  const observations: TableState = new Map();
+  for (const [id, o] of coach.observations) if (o.skaterId === skaterId) observations.set(id, { ...o, note: o.noteShared ? o.note : '' });
+  return {
+    observations,
+    sessions: new Map(coach.sessions),
+    cues: new Map(coach.cues),
+    skaters: new Map(own ? [[skaterId, own]] : []),
+    groups: new Map(groupId && coach.groups.has(groupId) ? [[groupId, coach.groups.get(groupId)!]] : []),
+  };
+}
+
+/** Every table the device store holds rows in for its user (the outbox is the user's own, parked). */
+export const HELD_TABLES = ['observations', 'sessions', 'cues', 'skaters', 'groups', 'sync_shadow'] as const;
+
+/**
+ * What a skater's device must not hold, whatever the state of a row (live, deleted, shadow): any
+ * other skater's note or profile, another group, the text of a note that is private now.
+ * `privateTexts` are the texts the skater may not read: those of notes private on the server, less
+ * any the skater may read on a note of their own (a group tap writes one text on several skaters'
+ * notes, each shared or not on its own). The caller makes texts distinct enough that a plain
+ * substring search finds them in any column, JSON-encoded or not.
+ */
+export async function skaterLeaks(driver: SqlDriver, skaterId: string, groupId: string | null, privateTexts: Iterable<string>): Promise<string[]> {
+  const leaks: string[] = [];
+  for (const r of await driver.all<{ id: string; skater_id: string; note: string; note_shared: number }>(`SELECT id, skater_id, note, note_shared FROM observations`)) {
+    if (r.skater_id !== skaterId) leaks.push(`observation ${r.id} of skater ${r.skater_id}`);
+    else if (!r.note_shared && r.note !== '') leaks.push(`observation ${r.id}: private note text ${JSON.stringify(r.note)}`);
+  }
+  for (const r of await driver.all<{ id: string }>(`SELECT id FROM skaters WHERE id <> ?`, [skaterId])) leaks.push(`skater ${r.id}`);
+  for (const r of await driver.all<{ id: string }>(`SELECT id FROM groups WHERE id IS NOT ?`, [groupId])) leaks.push(`group ${r.id}`);
+  for (const table of HELD_TABLES) {
+    const text = JSON.stringify(await driver.all(`SELECT * FROM ${table}`));
+    for (const secret of privateTexts) if (secret && text.includes(secret)) leaks.push(`private text ${JSON.stringify(secret)} held in ${table}`);
+  }
+  return leaks;
 }
 
 const stable = (value: unknown): string =>
