@@ -21,7 +21,8 @@ import type { Change, PullReply, PullTable } from '../shared/schemas/sync';
 import type { SqlDriver, SqlValue } from './driver';
 import { encodeFields, isPullTable, PULL_TABLES } from './fields';
 import { readShadow, writeShadow } from './shadow';
-import type { DeviceStore, OwnerFilter, SyncKeys } from './store';
+import type { DeviceStore, SyncKeys } from './store';
+import type { OwnerFilter } from './store-context';
 
 export const APPLY_ROWS_PER_STATEMENT = 1000;
 /** SQLite's default SQLITE_MAX_VARIABLE_NUMBER (3.32+). */

@@ -17,8 +17,10 @@
  */
 import { SYNC_PUSH_MAX_OPS, type Op, type PushReply } from '../shared/schemas/sync';
 import type { SqlDriver } from './driver';
+import { toOutboxEntry, type OutboxEntry } from './outbox';
 import { releaseAcknowledged } from './shadow';
-import { toOutboxEntry, type DeviceStore, type OutboxEntry, type SyncedTable } from './store';
+import type { DeviceStore } from './store';
+import type { SyncedTable } from './store-context';
 import { RequestRefused, type SyncTransport } from './transport';
 
 export const PUSH_MAX_BYTES = 900_000;

@@ -10,7 +10,7 @@
  */
 import type { PullTable } from '../shared/schemas/sync';
 import type { SqlDriver } from './driver';
-import { encodeFields } from './fields';
+import { writeFields } from './fields';
 
 type Fields = Record<string, unknown>;
 
@@ -63,13 +63,6 @@ export async function queuedFieldOwners(
     for (const [field, value] of Object.entries(JSON.parse(row.fields) as Fields)) owners.set(field, { seq: row.seq, value });
   }
   return owners;
-}
-
-/** Writes field values (protocol form) into a record's columns. */
-export async function writeFields(db: SqlDriver, table: PullTable, recordId: string, fields: Fields): Promise<void> {
-  const { columns, values } = encodeFields(table, fields);
-  if (columns.length === 0) return;
-  await db.run(`UPDATE ${table} SET ${columns.map((c) => `${c} = ?`).join(', ')} WHERE id = ?`, [...values, recordId]);
 }
 
 /**
