@@ -23,7 +23,7 @@ import type { SyncProgress } from '../sync/pull';
 import { SyncScheduler } from '../sync/scheduler';
 import type { OutboxEntry } from '../sync/store';
 import { useConnectivity } from './connectivity';
-import { httpSyncTransport } from './sync-transport';
+import { syncTransportFor } from './sync-transport';
 
 export type SyncStatus = {
   /** The team the figures below are about. */
@@ -76,7 +76,7 @@ export function runSync(teamId: string, onChanged?: () => void): Promise<SyncRes
       if (!userId) throw new Error('Sign in to sync');
       const result = await synchronize({
         store,
-        transport: httpSyncTransport,
+        transport: syncTransportFor(() => useSession.getState().user?.id === userId),
         teamId,
         // Only this user's outbox and cursor; the run stops if someone else opens the device.
         userId,

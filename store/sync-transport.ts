@@ -39,3 +39,20 @@ export const httpSyncTransport: SyncTransport = {
     return call(() => apiRequestParsed(`/api/sync/pull?${query.toString()}`, pullReplySchema));
   },
 };
+
+/**
+ * The HTTP transport for a run started by one user. Requests go out with whoever's token is
+ * current, so on a shared device a run must not send another batch once someone else has signed
+ * in: every request checks first that the run's user is still the one signed in.
+ */
+export function syncTransportFor(isRunUser: () => boolean): SyncTransport {
+  const guard = <T>(request: () => Promise<T>) => {
+    if (!isRunUser()) return Promise.reject(new TransportError('Someone else signed in on this device: this sync stopped'));
+    return request();
+  };
+  return {
+    time: () => guard(httpSyncTransport.time!),
+    push: (body) => guard(() => httpSyncTransport.push(body)),
+    pull: (query) => guard(() => httpSyncTransport.pull(query)),
+  };
+}

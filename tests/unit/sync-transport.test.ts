@@ -1,6 +1,6 @@
 /** Step 1, the HTTP transport: answers parsed with the shared schemas, failures mapped to the sync's error classes. */
 import { RequestRefused, ResyncRequired, ServerUnavailable, TransportError } from '../../sync/transport';
-import { httpSyncTransport } from '../../store/sync-transport';
+import { httpSyncTransport, syncTransportFor } from '../../store/sync-transport';
 
 const TEAM = '0193a000-0000-7000-8000-00000000aaaa';
 const clock = `${String(Date.UTC(2026, 11, 2)).padStart(15, '0')}-000000-server`;
@@ -54,5 +54,18 @@ describe('httpSyncTransport', () => {
     await expect(httpSyncTransport.pull({ teamId: TEAM, cursor: 0, limit: 10 })).rejects.toBeInstanceOf(TransportError);
     global.fetch = answer(200, { nonsense: true }) as unknown as typeof global.fetch;
     await expect(httpSyncTransport.pull({ teamId: TEAM, cursor: 0, limit: 10 })).rejects.toBeInstanceOf(TransportError);
+  });
+
+  it("a run's transport sends nothing once someone else has signed in on the device", async () => {
+    const fetch = answer(200, { results: [], serverClock: clock, serverTime: '2026-12-02T00:00:00Z' });
+    global.fetch = fetch as unknown as typeof global.fetch;
+    let signedIn = 'coach';
+    const transport = syncTransportFor(() => signedIn === 'coach');
+    await transport.push({ clientId: TEAM, teamId: TEAM, ops: [] });
+    expect(fetch).toHaveBeenCalledTimes(1);
+    signedIn = 'skater';
+    await expect(transport.push({ clientId: TEAM, teamId: TEAM, ops: [] })).rejects.toBeInstanceOf(TransportError);
+    await expect(transport.pull({ teamId: TEAM, cursor: 0, limit: 10 })).rejects.toBeInstanceOf(TransportError);
+    expect(fetch).toHaveBeenCalledTimes(1);
   });
 });
