@@ -45,8 +45,6 @@ export interface SyncResult {
 
 const running = new WeakMap<DeviceStore, Promise<SyncResult>>();
 
-export const isSyncRunning = (store: DeviceStore) => running.has(store);
-
 export function synchronize(options: SynchronizeOptions): Promise<SyncResult> {
   const { store } = options;
   if (running.has(store)) return Promise.reject(new SyncBusy());

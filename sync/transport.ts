@@ -56,6 +56,3 @@ export class RequestRefused extends Error {
     this.name = 'RequestRefused';
   }
 }
-
-/** Errors after which the same request may simply be tried again later. */
-export const isRetryable = (error: unknown): error is TransportError => error instanceof TransportError;
