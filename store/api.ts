@@ -8,10 +8,14 @@
  * - On a 401 the client refreshes once (a single shared refresh for concurrent requests) and
  *   retries; if that fails the session store is told the user is signed out.
  * - Every failure becomes an ApiRequestError with the server's code, message and per-field map.
+ * - A sign-out is written down before it is sent and forgotten only when the server answered it
+ *   (store/pending-sign-out.ts). While one is owed, no refresh is tried and every other request
+ *   first sends it: a sign-in must not replace the refresh cookie that names the sign-in to end.
  *
  * This module imports nothing from the session store, so the store can import it without a cycle.
  */
 import { apiErrorSchema, sessionSchema, type Session } from '../shared/schemas';
+import { forgetSignOut, pendingSignOut, rememberSignOut, type PendingSignOut } from './pending-sign-out';
 
 export const API_BASE_URL = (process.env.EXPO_PUBLIC_API_URL ?? '').replace(/\/$/, '');
 
@@ -45,6 +49,8 @@ type AuthBridge = {
   onSignedOut: () => void;
   /** Whether someone is signed in (possibly from memory, without a token). */
   isSignedIn: () => boolean;
+  /** Who is signed in, for the note a sign-out leaves until the server has it. */
+  getUserId: () => string | null;
 };
 
 let bridge: AuthBridge = {
@@ -52,6 +58,7 @@ let bridge: AuthBridge = {
   onRefreshed: () => undefined,
   onSignedOut: () => undefined,
   isSignedIn: () => false,
+  getUserId: () => null,
 };
 
 export function configureApiAuth(next: AuthBridge) {
@@ -125,6 +132,11 @@ export type RefreshOutcome = { status: 'ok'; session: Session } | { status: 'ref
 
 let refreshInFlight: Promise<RefreshOutcome> | null = null;
 
+export const SIGN_OUT_PATH = '/api/auth/sign-out';
+
+/** The server has a sign-out: it ended the sign-in, or (401) there was none left to end. */
+const signOutAnswered = (response: Response) => response.ok || response.status === 401;
+
 /**
  * Exchanges the refresh cookie for a new session. Concurrent callers share one request, because
  * the server rotates the refresh token and a second parallel refresh would present a spent one.
@@ -132,6 +144,9 @@ let refreshInFlight: Promise<RefreshOutcome> | null = null;
  * must not sign the coach out at the rink.
  */
 export function refreshSession(): Promise<RefreshOutcome> {
+  // The person on this device signed out: their cookie must not buy a session back, whatever
+  // asks (a reload, a reconnect, a request's 401). The pending sign-out is sent instead.
+  if (pendingSignOut()) return Promise.resolve({ status: 'refused' });
   if (!refreshInFlight) {
     refreshInFlight = (async (): Promise<RefreshOutcome> => {
       try {
@@ -151,8 +166,61 @@ export function refreshSession(): Promise<RefreshOutcome> {
   return refreshInFlight;
 }
 
+/** What sending the owed sign-out came to: nothing owed, answered (and forgotten), or still owed. */
+export type PendingSignOutOutcome = 'none' | 'sent' | 'unreachable' | 'failed';
+
+let pendingInFlight: Promise<PendingSignOutOutcome> | null = null;
+
+/**
+ * Sends the sign-out this device still owes (store/pending-sign-out.ts), with the refresh cookie
+ * that names the sign-in to end. Forgotten only when the server answered it; a network failure or
+ * a 5xx/429 keeps it for the next try. Concurrent callers share one request. Never throws.
+ */
+export function sendPendingSignOut(): Promise<PendingSignOutOutcome> {
+  if (!pendingInFlight) {
+    pendingInFlight = (async (): Promise<PendingSignOutOutcome> => {
+      const owed = pendingSignOut();
+      if (!owed) return 'none';
+      try {
+        const response = await send(SIGN_OUT_PATH, { method: 'POST', skipRefresh: true }, null);
+        if (!signOutAnswered(response)) return 'failed';
+        forgetSignOut(owed);
+        return 'sent';
+      } catch {
+        return 'unreachable';
+      }
+    })().finally(() => {
+      pendingInFlight = null;
+    });
+  }
+  return pendingInFlight;
+}
+
+/** The sign-out asked for now: written down first, forgotten once the server answers it. */
+async function sendSignOut(options: RequestOptions): Promise<Response> {
+  const mark: PendingSignOut = rememberSignOut(bridge.getUserId());
+  const response = await send(SIGN_OUT_PATH, options, bridge.getAccessToken());
+  if (signOutAnswered(response)) forgetSignOut(mark);
+  return response;
+}
+
 /** Calls the API and returns the parsed JSON body (undefined for 204). Throws ApiRequestError. */
 export async function apiRequest<T = unknown>(path: string, options: RequestOptions = {}): Promise<T> {
+  if (path === SIGN_OUT_PATH) {
+    const response = await sendSignOut(options);
+    const body = await readBody(response);
+    if (!response.ok) throw toError(response, body);
+    return body as T;
+  }
+
+  // An owed sign-out goes first. Above all before a sign-in: its answer replaces the refresh
+  // cookie, and the sign-in named by the old one could then never be ended from here.
+  if (pendingSignOut()) {
+    const outcome = await sendPendingSignOut();
+    if (outcome === 'unreachable') throw new ApiRequestError(0, 'network', NETWORK_MESSAGE);
+    if (outcome === 'failed') throw new ApiRequestError(503, 'unavailable', NETWORK_MESSAGE);
+  }
+
   const token = bridge.getAccessToken();
   let response = await send(path, options, token);
 

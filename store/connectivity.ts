@@ -2,10 +2,13 @@
  * Is the Boardside server reachable right now? The browser's online flag alone lies (rink Wi-Fi
  * with no internet behind it), so the answer also rests on a light health check, repeated while
  * the app is open. The board shows the result; nothing waits on it.
+ * A sign-out made while the server was out of reach is sent from here once it can be reached
+ * again (`watchPendingSignOut`), whatever screen is showing.
  */
 import { useEffect } from 'react';
 import { create } from 'zustand';
-import { API_BASE_URL } from './api';
+import { API_BASE_URL, sendPendingSignOut } from './api';
+import { pendingSignOut } from './pending-sign-out';
 
 type Connectivity = { online: boolean; checkedAt: number | null; set: (online: boolean) => void };
 
@@ -52,4 +55,35 @@ export function useConnectivityWatch(onBackOnline?: () => void) {
       clearInterval(timer);
     };
   }, [onBackOnline]);
+}
+
+/** How often an owed sign-out is tried again while the app is open and the browser thinks it is online. */
+const PENDING_SIGN_OUT_RETRY_MS = 15_000;
+
+let pendingWatchStarted = false;
+
+/**
+ * Sends an owed sign-out (store/pending-sign-out.ts) whenever the server may be back: the browser's
+ * 'online' event, the connectivity store turning online (the board's health checks), the app
+ * coming back to the foreground, and every 15 s while one is owed. The sign-in form has no
+ * connectivity watch of its own, hence the timer. Started once, at app start (session bootstrap).
+ */
+export function watchPendingSignOut() {
+  if (pendingWatchStarted || typeof window === 'undefined') return;
+  pendingWatchStarted = true;
+  const attempt = () => {
+    if (!pendingSignOut()) return;
+    if (typeof navigator !== 'undefined' && navigator.onLine === false) return;
+    void sendPendingSignOut();
+  };
+  window.addEventListener('online', attempt);
+  if (typeof document !== 'undefined') {
+    document.addEventListener('visibilitychange', () => {
+      if (document.visibilityState === 'visible') attempt();
+    });
+  }
+  useConnectivity.subscribe((now, before) => {
+    if (now.online && !before.online) attempt();
+  });
+  setInterval(attempt, PENDING_SIGN_OUT_RETRY_MS);
 }

@@ -6,13 +6,18 @@
  * 'signedOut'. No answer at all (offline at the rink, server down) keeps the coach signed in
  * from the identity remembered on this device, with `offline` set and no token, until a later
  * `reconnect()` gets a real session (or a refusal).
+ * A sign-out the server has not heard of yet (store/pending-sign-out.ts) outranks all of that: the
+ * app starts signed out, neither the cookie nor the remembered identity brings anyone back, and
+ * the sign-out is sent as soon as the server can be reached (store/connectivity.ts).
  * Team data itself lives in react-query, not here.
  */
 import { create } from 'zustand';
 
 import { isCoachRole, type Membership, type Session, type User } from '../shared/schemas';
-import { configureApiAuth, refreshSession } from './api';
+import { configureApiAuth, refreshSession, sendPendingSignOut, type RefreshOutcome } from './api';
+import { watchPendingSignOut } from './connectivity';
 import { clearIdentity, loadIdentity, saveIdentity } from './identity-cache';
+import { pendingSignOut } from './pending-sign-out';
 
 export type SessionStatus = 'loading' | 'signedOut' | 'signedIn';
 
@@ -39,6 +44,13 @@ function pickActiveTeam(memberships: Membership[], current: string | null): stri
 }
 
 let bootstrapStarted: Promise<void> | null = null;
+
+/**
+ * A refresh's outcome, read again after the wait: a sign-out made meanwhile (another tab, or a
+ * tap while the answer was on its way) turns a new session into a refusal.
+ */
+const unlessSignedOutMeanwhile = (outcome: RefreshOutcome): RefreshOutcome =>
+  outcome.status === 'ok' && pendingSignOut() ? { status: 'refused' } : outcome;
 
 export const useSession = create<SessionState>()((set, get) => ({
   status: 'loading',
@@ -75,7 +87,7 @@ export const useSession = create<SessionState>()((set, get) => ({
 
   reconnect: async () => {
     if (!get().offline) return;
-    const outcome = await refreshSession();
+    const outcome = unlessSignedOutMeanwhile(await refreshSession());
     if (outcome.status === 'ok') get().setSession(outcome.session);
     else if (outcome.status === 'refused') get().signOutLocally();
   },
@@ -84,9 +96,17 @@ export const useSession = create<SessionState>()((set, get) => ({
     // Once per app start: React strict mode and fast refresh may call the effect twice.
     if (!bootstrapStarted) {
       bootstrapStarted = (async () => {
-        const outcome = await refreshSession();
+        watchPendingSignOut();
+        if (pendingSignOut()) {
+          // Signed out here, the server not told yet: the sign-in form at once, and the sign-out
+          // sent in the background (no spinner waiting on a rink's Wi-Fi).
+          get().signOutLocally();
+          void sendPendingSignOut();
+          return;
+        }
+        const outcome = unlessSignedOutMeanwhile(await refreshSession());
         if (outcome.status === 'ok') return get().setSession(outcome.session);
-        const remembered = outcome.status === 'unreachable' ? loadIdentity() : null;
+        const remembered = outcome.status === 'unreachable' && !pendingSignOut() ? loadIdentity() : null;
         if (!remembered) return get().signOutLocally();
         set({
           status: 'signedIn',
@@ -105,9 +125,14 @@ export const useSession = create<SessionState>()((set, get) => ({
 // The API client reads the token and reports refreshes through this bridge (no import cycle).
 configureApiAuth({
   getAccessToken: () => useSession.getState().accessToken,
-  onRefreshed: (session) => useSession.getState().setSession(session),
+  // A refresh that was already on its way when the person signed out must not sign them back in.
+  onRefreshed: (session) => {
+    if (pendingSignOut()) useSession.getState().signOutLocally();
+    else useSession.getState().setSession(session);
+  },
   onSignedOut: () => useSession.getState().signOutLocally(),
   isSignedIn: () => useSession.getState().status === 'signedIn',
+  getUserId: () => useSession.getState().user?.id ?? null,
 });
 
 /** Test helper: forget that bootstrap ran. */
