@@ -90,19 +90,20 @@ export async function writeFields(db: SqlDriver, table: PullTable, recordId: str
  * Inserts a record made on this device (not synced yet) from its protocol fields; `hlc`, when
  * given, goes in with it (the tap's insert carries its clock values: no second statement).
  */
-export async function insertRecord(
+export function insertRecord(
   db: SqlDriver,
   table: PullTable,
   record: { id: string; teamId: string },
   fields: Record<string, unknown>,
   hlc?: Record<string, string>,
-): Promise<void> {
+): Promise<unknown> {
   const { columns, values } = encodeFields(table, fields);
   if (hlc) {
     columns.push('hlc');
     values.push(JSON.stringify(hlc));
   }
-  await db.run(`INSERT INTO ${table} (id, team_id, ${columns.join(', ')}) VALUES (?, ?, ${columns.map(() => '?').join(', ')})`, [
+  // Not async: the tap awaits the insert itself, with nothing in between.
+  return db.run(`INSERT INTO ${table} (id, team_id, ${columns.join(', ')}) VALUES (?, ?, ${columns.map(() => '?').join(', ')})`, [
     record.id,
     record.teamId,
     ...values,
