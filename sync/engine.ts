@@ -65,17 +65,29 @@ async function runOnce({ store, transport, teamId, clientId, userId, onProgress,
   // Bound once: every step works for this user, whoever opens the store meanwhile.
   const sync = userId !== undefined ? store.syncInternals(userId) : store.syncInternals();
   const forUser = sync.owner;
-  if (transport.time) {
-    // Best effort: a device that cannot ask the time still syncs (the server clamps its clocks).
-    await store.correctClock(() => transport.time!()).catch(() => undefined);
-  }
   let push: PushSummary = EMPTY_PUSH;
   let pushError: SyncError | null = null;
-  try {
-    push = await pushOutbox(store, transport, { teamId, clientId: clientId ?? store.clientId, batchSize, userId: forUser });
-  } catch (error) {
-    pushError = wrapStep('push', error);
-    if (isUnreachable(error) || error instanceof OwnerChanged) throw pushError;
+  let clockChecked = true;
+  if (transport.time) {
+    // The device's clock is checked against the server's before anything is sent: changes made
+    // on a clock that runs far off are moved to real time first (clock-correction.ts). Sent
+    // uncorrected, their instants could be refused as from the future, and a sent op is never
+    // moved again. So without the server's time, nothing is pushed this run (pull still runs).
+    try {
+      await store.correctClock(() => transport.time!());
+    } catch (error) {
+      if (isUnreachable(error)) throw wrapStep('push', error);
+      clockChecked = false;
+      pushError = wrapStep('push', error);
+    }
+  }
+  if (clockChecked) {
+    try {
+      push = await pushOutbox(store, transport, { teamId, clientId: clientId ?? store.clientId, batchSize, userId: forUser });
+    } catch (error) {
+      pushError = wrapStep('push', error);
+      if (isUnreachable(error) || error instanceof OwnerChanged) throw pushError;
+    }
   }
   let pull: PullSummary;
   try {

@@ -73,6 +73,27 @@ describe('synchronize', () => {
     expect(await store.pendingCount()).toBe(2);
   });
 
+  it("sends nothing while the server's time cannot be checked (the clock may be off), but still pulls", async () => {
+    const { server, sync, tap, store } = await setup();
+    await tap();
+    let pushes = 0;
+    const push = server.transport.push;
+    server.transport.push = (body) => ((pushes += 1), push(body));
+    server.transport.time = async () => {
+      throw new ServerUnavailable();
+    };
+    const error = await sync().catch((e) => e);
+    expect(error).toMatchObject({ step: 'push' });
+    expect(pushes).toBe(0);
+    expect(server.pullCalls).toBe(1);
+    expect((await store.listOutbox()).every((e) => e.sentAt === null)).toBe(true);
+    // Once the time answers, the changes go.
+    server.transport.time = async () => new Date(server.time).toISOString();
+    await sync();
+    expect(pushes).toBe(1);
+    expect(await store.pendingCount()).toBe(0);
+  });
+
   it('never sends a rejected op again by itself, and keeps pulling', async () => {
     const { server, sync, tap, store } = await setup();
     const [bad] = await tap();
