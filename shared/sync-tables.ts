@@ -41,11 +41,16 @@ export interface SyncField {
   ref?: SyncTableName;
   /**
    * Who may set the field through push: coaches (the default), or only the skater the record
-   * belongs to (an acknowledgement).
+   * belongs to, signed in as that skater (an acknowledgement: never a guardian on their behalf).
    */
   writer?: 'coach' | 'own_skater';
   /** The author: always the signed-in user (from the token); an op naming someone else is refused. */
   author?: boolean;
+  /**
+   * The author's display name as it was when the record was made: set by the server from the
+   * signed-in user's account on create (any value in the op is ignored), fixed afterwards.
+   */
+  authorName?: boolean;
   /** An instant the server bounds: not after its clock's allowed lead, not before the team existed. */
   instant?: boolean;
   /** SQL the pull reads instead of the column for a skater or guardian (e.g. a private note's text blanked). */
@@ -59,6 +64,11 @@ export interface SyncTable {
   serverTable: string;
   /** Who may push ops to the table: nobody (it only flows down), any coach, or the head coach. */
   pushBy: 'none' | 'coach' | 'head_coach';
+  /**
+   * Who may change or delete a record that exists: anyone `pushBy` allows (the default), or only
+   * its author (the `author` field) and the head coach.
+   */
+  changeBy?: 'pushers' | 'author_or_head_coach';
   /** The field of the record naming the skater it belongs to (for skaters' own writes and reads). */
   ownerField?: string;
   /**
@@ -75,6 +85,8 @@ export const syncTables: Record<SyncTableName, SyncTable> = {
   observations: {
     serverTable: 'observations',
     pushBy: 'coach',
+    // A coach changes their own notes; the head coach any (PRODUCT.md, "Look and feel").
+    changeBy: 'author_or_head_coach',
     ownerField: 'skaterId',
     viewerRows: { where: 'skater_id = $viewer' },
     fields: {
@@ -89,6 +101,7 @@ export const syncTables: Record<SyncTableName, SyncTable> = {
       noteShared: { column: 'note_shared', server: 'bool', device: 'bool', rule: z.boolean({ error: 'noteShared must be true or false' }), initial: false },
       createdAt: { column: 'created_at', server: 'timestamptz', device: 'text', rule: instantSchema('createdAt'), required: true, immutable: true, instant: true },
       createdBy: { column: 'created_by', server: 'uuid', device: 'text', rule: uuid('createdBy'), immutable: true, author: true },
+      authorName: { column: 'author_name', server: 'text', device: 'text', rule: safeText('authorName', 200), initial: '', immutable: true, authorName: true },
       acknowledgedAt: {
         column: 'acknowledged_at', server: 'timestamptz', device: 'text', rule: instantSchema('acknowledgedAt').nullable(),
         initial: null, writer: 'own_skater', instant: true,

@@ -78,6 +78,11 @@ export const deviceMigrations: readonly string[] = [
     PRIMARY KEY (tbl, record_id)
   );
   `,
+  // 3: who wrote each note (the author's name when it was made; the server's value comes down
+  // with the next pull, notes made here carry the signed-in coach's name at once).
+  `
+  ALTER TABLE observations ADD COLUMN author_name TEXT NOT NULL DEFAULT '';
+  `,
 ];
 
 export const DEVICE_SCHEMA_VERSION = deviceMigrations.length;

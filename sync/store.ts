@@ -14,7 +14,7 @@
 import { v7 as uuidv7 } from 'uuid';
 import type { Phase } from '../shared/cues';
 import { HybridClock } from '../shared/hlc';
-import type { BoardSession, BoardSessionPatch, Cue, Group, Observation, ObservationPatch, Skater } from '../shared/schemas';
+import type { BoardSession, BoardSessionPatch, Cue, Group, Observation, ObservationPatch, Role, Skater } from '../shared/schemas';
 import { correctClock } from './clock-correction';
 import { SerialQueue, transaction, type SqlDriver } from './driver';
 import * as outbox from './outbox';
@@ -332,18 +332,19 @@ export class DeviceStore {
     return observations.recordObservations(this.ctx, input);
   }
 
-  updateObservation(id: string, userId: string, patch: ObservationPatch): Promise<Observation> {
-    return observations.updateObservation(this.ctx, id, userId, patch);
+  /** A coach changes their own notes, the head coach any (`role`; without it, only the author). */
+  updateObservation(id: string, userId: string, patch: ObservationPatch, role?: Role): Promise<Observation> {
+    return observations.updateObservation(this.ctx, id, userId, patch, role);
   }
 
   /** Undo, or delete from the feed: gone without a trace if it never left the device. */
-  removeObservations(ids: readonly string[], userId: string): Promise<void> {
-    return observations.removeObservations(this.ctx, ids, userId);
+  removeObservations(ids: readonly string[], userId: string, role?: Role): Promise<void> {
+    return observations.removeObservations(this.ctx, ids, userId, role);
   }
 
-  /** The skater (or guardian) says "got it", once; resolves to the acknowledgement time. */
-  acknowledgeObservation(id: string, userId: string): Promise<string> {
-    return observations.acknowledgeObservation(this.ctx, id, userId);
+  /** The skater says "got it", once; a guardian (`role`) cannot. Resolves to the acknowledgement time. */
+  acknowledgeObservation(id: string, userId: string, role?: Role): Promise<string> {
+    return observations.acknowledgeObservation(this.ctx, id, userId, role);
   }
 
   /** The session's notes, newest first (tombstones excluded). */

@@ -10,15 +10,18 @@ import { pullQuerySchema, pushBodySchema } from '../../shared/schemas/sync';
 import { requireUser } from '../lib/auth';
 import { forbidden, HttpError, notFound, parse } from '../lib/errors';
 import { syncLimit } from '../lib/rate-limit';
-import { Membership } from '../entities';
 import { readPull } from '../services/sync/pull';
 import { applyPush } from '../services/sync/push';
 import type { Caller } from '../services/sync/settle';
 
 async function callerIn(dataSource: DataSource, teamId: string, userId: string): Promise<Caller> {
-  const membership = await dataSource.getRepository(Membership).findOneBy({ teamId, userId });
+  const [membership]: { role: Caller['role']; skater_id: string | null; display_name: string }[] = await dataSource.query(
+    `SELECT m.role, m.skater_id, u.display_name FROM memberships m JOIN users u ON u.id = m.user_id
+      WHERE m.team_id = $1 AND m.user_id = $2`,
+    [teamId, userId],
+  );
   if (!membership) throw notFound('Team not found');
-  return { userId, role: membership.role, skaterId: membership.skaterId };
+  return { userId, role: membership.role, skaterId: membership.skater_id, displayName: membership.display_name };
 }
 
 /** Registers the client id to the user on first use; answers the id's owner. */

@@ -5,13 +5,14 @@
 import { Router } from 'express';
 import type { DataSource } from 'typeorm';
 import { v7 as uuidv7 } from 'uuid';
-import { invitationCreateSchema, isCoachRole, skaterCreateSchema, type Member, type Skater as SkaterDto } from '../../shared/schemas';
+import { invitationCreateSchema, isCoachRole, skaterCreateSchema, teamSettingsPatchSchema, type Member, type Skater as SkaterDto } from '../../shared/schemas';
 import { requireTeamRole, requireUser } from '../lib/auth';
 import { conflict, notFound, parse } from '../lib/errors';
 import { Invitation, Skater, SkaterGroup } from '../entities';
 import { listCues } from '../services/cues';
 import { nextSeqs } from '../services/sync/counter';
 import { createInvitation, toInvitationDto } from '../services/invitations';
+import { readTeamSettings, updateTeamSettings } from '../services/team-settings';
 import { z } from 'zod';
 
 const toSkaterDto = (row: Skater): SkaterDto => ({
@@ -77,6 +78,16 @@ export function teamRoutes(dataSource: DataSource) {
   /** The cue library (archived cues included, flagged): coaches record with it; skaters read cues by it. */
   router.get('/teams/:teamId/cues', member, async (req, res) => {
     res.json(await listCues(dataSource, req.membership!.teamId));
+  });
+
+  /** The team's settings: coaches read them (the board's defaults), the head coach changes them. */
+  router.get('/teams/:teamId/settings', coach, async (req, res) => {
+    res.json(await readTeamSettings(dataSource, req.membership!.teamId));
+  });
+
+  router.patch('/teams/:teamId/settings', headCoach, async (req, res) => {
+    const patch = parse(teamSettingsPatchSchema, req.body);
+    res.json(await updateTeamSettings(dataSource, req.membership!.teamId, patch));
   });
 
   router.get('/teams/:teamId/members', coach, async (req, res) => {

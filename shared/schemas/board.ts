@@ -39,7 +39,9 @@ export const observationSchema = z.object({
   noteShared: z.boolean(),
   createdAt: z.string(),
   createdBy: z.uuid(),
-  /** When the skater (or their guardian) acknowledged the cue; set on their device, synced back. */
+  /** The author's display name when the note was made (set by the server; '' on older notes). */
+  authorName: z.string().optional(),
+  /** When the skater acknowledged the cue; set on their device, synced back. */
   acknowledgedAt: z.string().nullable().optional(),
 });
 export type Observation = z.infer<typeof observationSchema>;

@@ -42,3 +42,16 @@ export const squadSchema = z.object({
   skaters: z.array(skaterSchema),
 });
 export type Squad = z.infer<typeof squadSchema>;
+
+/** What the head coach decides for the whole team. */
+export const teamSettingsSchema = z.object({
+  /** Whether a note written at the boards is shared with its skater unless the coach says otherwise. */
+  shareBoardNotes: z.boolean(),
+});
+export type TeamSettings = z.infer<typeof teamSettingsSchema>;
+
+export const teamSettingsPatchSchema = z
+  .object({ shareBoardNotes: z.boolean({ error: 'shareBoardNotes must be true or false' }) })
+  .partial()
+  .strict();
+export type TeamSettingsPatch = z.infer<typeof teamSettingsPatchSchema>;

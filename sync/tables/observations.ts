@@ -4,7 +4,8 @@
  * recordObservations costs two inserts per skater and the commit, nothing more.
  */
 import { v7 as uuidv7 } from 'uuid';
-import { noteSchema, observationPatchSchema, type Mark, type Observation, type ObservationPatch } from '../../shared/schemas';
+import { noteSchema, observationPatchSchema, type Mark, type Observation, type ObservationPatch, type Role } from '../../shared/schemas';
+import { mayChangeNote } from '../../shared/authors';
 import type { SqlValue } from '../driver';
 import { decodeRow, insertRecord, selectColumns } from '../fields';
 import { queueEdit } from '../outbox';
@@ -20,6 +21,8 @@ export interface RecordInput {
   mark: Mark;
   note?: string;
   noteShared?: boolean;
+  /** The signed-in coach's display name, shown as the author at once (the server writes its own). */
+  authorName?: string;
   /** Ids for the new observations, one per skater (made by the caller to paint optimistically). */
   ids?: readonly string[];
 }
@@ -54,6 +57,7 @@ export async function recordObservations(ctx: StoreContext, input: RecordInput):
         noteShared: input.noteShared ?? false,
         createdAt,
         createdBy: input.userId,
+        authorName: input.authorName ?? '',
       };
       const hlc = ctx.tick();
       const { id: _id, teamId: _team, ...fields } = observation;
@@ -74,10 +78,18 @@ async function observationRow(ctx: StoreContext, id: string): Promise<Observatio
   return decodeRow<Observation>('observations', row);
 }
 
-export async function updateObservation(ctx: StoreContext, id: string, userId: string, patch: ObservationPatch): Promise<Observation> {
+function assertMayChange(row: Observation, userId: string, role: Role | undefined, what: 'change' | 'delete') {
+  // A coach changes their own notes, the head coach any; without a role, only the author.
+  if (!mayChangeNote(row, userId, role)) {
+    throw new StoreError(`Only the coach who wrote this note or the head coach may ${what} it`);
+  }
+}
+
+export async function updateObservation(ctx: StoreContext, id: string, userId: string, patch: ObservationPatch, role?: Role): Promise<Observation> {
   const changes = validate<ObservationPatch>(observationPatchSchema, patch);
   return ctx.tx(async () => {
     const row = await observationRow(ctx, id);
+    assertMayChange(row, userId, role, 'change');
     const fields: Record<string, unknown> = {};
     for (const field of ['mark', 'note', 'noteShared'] as const) {
       if (changes[field] !== undefined && changes[field] !== row[field]) fields[field] = changes[field];
@@ -96,11 +108,12 @@ export async function updateObservation(ctx: StoreContext, id: string, userId: s
  * disappears with its outbox entries, so it never shows up anywhere; one the server may have
  * seen becomes a tombstone with a delete in the outbox.
  */
-export async function removeObservations(ctx: StoreContext, ids: readonly string[], userId: string): Promise<void> {
+export async function removeObservations(ctx: StoreContext, ids: readonly string[], userId: string, role?: Role): Promise<void> {
   const { db } = ctx;
   await ctx.tx(async () => {
     for (const id of ids) {
       const row = await observationRow(ctx, id);
+      assertMayChange(row, userId, role, 'delete');
       const [{ sent, synced }] = await db.all<{ sent: number; synced: number }>(
         `SELECT (SELECT count(*) FROM outbox WHERE tbl = 'observations' AND record_id = ? AND sent_at IS NOT NULL) AS sent,
                 (SELECT synced FROM observations WHERE id = ?) AS synced`,
@@ -121,11 +134,12 @@ export async function removeObservations(ctx: StoreContext, ids: readonly string
 }
 
 /**
- * The skater (or their guardian) says "got it": sets acknowledged_at and queues the change, in
- * one transaction. A note already acknowledged stays as it is (no second change is queued).
- * Resolves to the acknowledgement time.
+ * The skater says "got it": sets acknowledged_at and queues the change, in one transaction. A note
+ * already acknowledged stays as it is (no second change is queued). A guardian reads along but
+ * never acknowledges for the skater (the server refuses it too). Resolves to the acknowledgement time.
  */
-export function acknowledgeObservation(ctx: StoreContext, id: string, userId: string): Promise<string> {
+export function acknowledgeObservation(ctx: StoreContext, id: string, userId: string, role?: Role): Promise<string> {
+  if (role !== undefined && role !== 'skater') return Promise.reject(new StoreError('Only the skater can say they got a note'));
   return ctx.tx(async () => {
     const row = await observationRow(ctx, id);
     if (row.acknowledgedAt) return row.acknowledgedAt;

@@ -81,9 +81,16 @@ describe('push', () => {
     const skater = device(a.skaterAccount);
     const guardian = device(a.guardian);
     const cue = a.cueIds[1];
+    const coachNote = newObservation(a, coach);
     const cases: { who: typeof head; op: Op; expected: 'applied' | 'permission' }[] = [
-      { who: coach, op: newObservation(a, coach), expected: 'applied' },
-      { who: coach, op: upsert(coach, 'observations', sharedA.recordId, { mark: 'good' }), expected: 'applied' },
+      { who: coach, op: coachNote, expected: 'applied' },
+      // A coach changes their own notes; the head coach any; another coach's only the head coach.
+      { who: coach, op: upsert(coach, 'observations', coachNote.recordId, { note: 'seen on the back straight' }), expected: 'applied' },
+      { who: coach, op: upsert(coach, 'observations', sharedA.recordId, { mark: 'good' }), expected: 'permission' },
+      { who: coach, op: remove(coach, 'observations', sharedA.recordId), expected: 'permission' },
+      { who: head, op: upsert(head, 'observations', sharedA.recordId, { mark: 'good' }), expected: 'applied' },
+      { who: head, op: upsert(head, 'observations', coachNote.recordId, { mark: 'good' }), expected: 'applied' },
+      { who: head, op: remove(head, 'observations', coachNote.recordId), expected: 'applied' },
       { who: coach, op: upsert(coach, 'sessions', a.sessionId, { title: 'Intervals' }), expected: 'applied' },
       { who: coach, op: upsert(coach, 'cues', cue, { label: 'Coach renames' }), expected: 'permission' },
       { who: coach, op: upsert(coach, 'observations', sharedA.recordId, { acknowledgedAt: new Date().toISOString() }), expected: 'permission' },
@@ -99,7 +106,8 @@ describe('push', () => {
       { who: skater, op: upsert(skater, 'observations', uuidv7(), { acknowledgedAt: new Date().toISOString() }), expected: 'permission' },
       { who: skater, op: upsert(skater, 'observations', privateA.recordId, { acknowledgedAt: new Date().toISOString() }), expected: 'applied' },
       { who: guardian, op: upsert(guardian, 'observations', privateA.recordId, { acknowledgedAt: new Date().toISOString() }), expected: 'permission' },
-      { who: guardian, op: upsert(guardian, 'observations', sharedB.recordId, { acknowledgedAt: new Date().toISOString() }), expected: 'applied' },
+      // A guardian reads along but never acknowledges for the skater.
+      { who: guardian, op: upsert(guardian, 'observations', sharedB.recordId, { acknowledgedAt: new Date().toISOString() }), expected: 'permission' },
       { who: guardian, op: upsert(guardian, 'observations', sharedB.recordId, { noteShared: false }), expected: 'permission' },
     ];
     const before = await server.dataSource.query(`SELECT id, mark, note, note_shared FROM observations WHERE team_id = $1 ORDER BY id`, [a.teamId]);
@@ -109,7 +117,7 @@ describe('push', () => {
       expect({ index, outcome }).toEqual({ index, outcome: c.expected });
     }
     // No refused change reached a skater's observation: marks, notes and sharing are as before
-    // except the one coach edit of sharedA's mark.
+    // except the head coach's edit of sharedA's mark.
     const after = await server.dataSource.query(`SELECT id, mark, note, note_shared FROM observations WHERE team_id = $1 ORDER BY id`, [a.teamId]);
     const changed = after.filter((row: { id: string }) => {
       const old = before.find((o: { id: string }) => o.id === row.id);
@@ -117,7 +125,7 @@ describe('push', () => {
     });
     expect(changed.map((r: { id: string }) => r.id)).toEqual([sharedA.recordId]);
     expect((await rowOf(privateA.recordId)).acknowledged_at).not.toBeNull();
-    expect((await rowOf(sharedB.recordId)).acknowledged_at).not.toBeNull();
+    expect((await rowOf(sharedB.recordId)).acknowledged_at).toBeNull();
   });
 });
 

@@ -262,10 +262,11 @@ describe('3. two coaches edit the same note offline', () => {
     syncFirst: Editor;
   }
 
+  // The coach's note: the coach edits it as its author, the head coach as the head coach.
   async function play(head: SimDevice, coach: SimDevice, plan: Plan) {
-    const [obs] = await tap(head, { note: 'base' });
-    await head.sync();
+    const [obs] = await tap(coach, { note: 'base' });
     await coach.sync();
+    await head.sync();
     const devices = { head, coach };
     const later: Editor = plan.firstEditor === 'head' ? 'coach' : 'head';
     const expected: Record<string, unknown> = { mark: 'needs_work', note: 'base' };
@@ -276,11 +277,12 @@ describe('3. two coaches edit the same note offline', () => {
     ] as const) {
       virtual += 5_000;
       const dev = devices[who];
+      const role = who === 'head' ? 'head_coach' : 'coach';
       for (let i = 0; i < edits.markFlips; i += 1) {
         const mark = (await deviceRow(dev, obs.id))!.mark === 'good' ? 'needs_work' : 'good';
-        await dev.store.updateObservation(obs.id, dev.userId, { mark });
+        await dev.store.updateObservation(obs.id, dev.userId, { mark }, role);
       }
-      if (edits.note) await dev.store.updateObservation(obs.id, dev.userId, { note: `${label} by ${who}` });
+      if (edits.note) await dev.store.updateObservation(obs.id, dev.userId, { note: `${label} by ${who}` }, role);
       const row = (await deviceRow(dev, obs.id))!;
       const outbox = (await dev.store.listOutbox()).filter((e) => e.recordId === obs.id);
       for (const field of ['mark', 'note']) {
@@ -409,10 +411,16 @@ describe('5. a device clock one year ahead', () => {
         const fields = round.mark || round.note ? round : { ...round, note: true };
         const flip = async (dev: SimDevice, label: string) => {
           const row = (await deviceRow(dev, obs.id))!;
-          await dev.store.updateObservation(obs.id, dev.userId, {
-            ...(fields.mark ? { mark: row.mark === 'good' ? 'needs_work' : 'good' } : {}),
-            ...(fields.note ? { note: `${label} ${i}` } : {}),
-          });
+          // The fast device is the head coach's (it may change the honest coach's note).
+          await dev.store.updateObservation(
+            obs.id,
+            dev.userId,
+            {
+              ...(fields.mark ? { mark: row.mark === 'good' ? 'needs_work' : 'good' } : {}),
+              ...(fields.note ? { note: `${label} ${i}` } : {}),
+            },
+            dev === fast ? 'head_coach' : 'coach',
+          );
         };
         await flip(fast, 'future');
         if (round.fastSyncsAt === 'once edited') await fast.sync();
@@ -546,9 +554,11 @@ describe('7. authorization over the engine', () => {
     }
     const skaters = await dev.store.listSkaters(team.teamId);
     expect(skaters.map((s) => s.id)).toEqual([skater()]);
-    // An edit from this device is refused (permission) and kept as rejected; the server is unchanged.
+    // The store refuses an edit from this device; a tampered app that claims to be the head coach
+    // gets it queued, and the server refuses it (permission), kept as rejected; the server is unchanged.
     const own = made.find((m) => m.skaterId === skater())!;
-    await dev.store.updateObservation(own.id, dev.userId, { mark: 'needs_work' });
+    await expect(dev.store.updateObservation(own.id, dev.userId, { mark: 'needs_work' })).rejects.toThrow(/Only the coach who wrote/);
+    await dev.store.updateObservation(own.id, dev.userId, { mark: 'needs_work' }, 'head_coach');
     const result = await dev.sync();
     expect(result.push.rejected).toBe(1);
     const [rejected] = await dev.store.listRejected(team.teamId);

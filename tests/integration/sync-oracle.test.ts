@@ -89,13 +89,15 @@ class Model {
     return out;
   }
 
-  /** One pushed batch, op by op. */
-  apply(ops: Op[]) {
+  /** One pushed batch, op by op, from `by` (a plain coach changes only the notes they wrote). */
+  apply(ops: Op[], by: { userId: string; head: boolean }) {
     const clamped = this.clamp(ops.flatMap((op) => Object.values(op.hlc)));
     for (const op of ops) {
       const table = op.table as Table;
       const clockOf = (field: string) => decode(clamped.get(op.hlc[field]) ?? op.hlc[field]);
       const record = this.records.get(op.recordId);
+      // PRODUCT.md: a coach changes their own notes, the head coach any (refused, nothing changes).
+      if (table === 'observations' && !by.head && record?.created && record.fields.get('createdBy')?.value !== by.userId) continue;
       if (op.kind === 'delete') {
         if (record) record.deleted = true;
         else this.records.set(op.recordId, { table, fields: new Map(), deleted: true, created: false });
@@ -304,7 +306,7 @@ describe('merge oracle: the server against a model written from the contract', (
           const res = await push(server.app, { clientId: dev.clientId, clock: undefined as never, account: dev.account }, team.teamId, ops);
           expect(res.status).toBe(200);
           expect((res.body as PushReply).results.map((r) => r.opId)).toEqual(ops.map((op) => op.opId));
-          model.apply(ops);
+          model.apply(ops, { userId: userIdOf(dev.account), head: dev.account === team.head });
         }
         expect(await disagreements(model, [...ids.observations, ...ids.sessions])).toEqual([]);
       }),

@@ -405,7 +405,8 @@ describe('size', () => {
         table: 'observations',
         id: create.recordId,
         serverSeq: expect.any(Number),
-        fields: { ...create.fields, acknowledgedAt: null },
+        // The author's name comes from the account, not from the device.
+        fields: { ...create.fields, acknowledgedAt: null, authorName: team.head.session.user.displayName },
       },
     ]);
     expect(res.body).toMatchObject({ tombstones: [], evictions: [], hasMore: false, remaining: 0, nextCursor: res.body.changes[0].serverSeq });

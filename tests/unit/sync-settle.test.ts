@@ -11,10 +11,12 @@ import { emptyRecord, recordKey, settleBatch, type BatchState, type Caller, type
 
 const TEAM_CREATED = Date.parse('2026-01-01T00:00:00Z');
 const NOW = Date.parse('2026-11-20T18:00:00Z');
-const head: Caller = { userId: '0190f2c4-0000-7000-8000-000000000001', role: 'head_coach', skaterId: null };
-const coach: Caller = { userId: '0190f2c4-0000-7000-8000-000000000002', role: 'coach', skaterId: null };
+const head: Caller = { userId: '0190f2c4-0000-7000-8000-000000000001', role: 'head_coach', skaterId: null, displayName: 'Marit Oosterhof' };
+const coach: Caller = { userId: '0190f2c4-0000-7000-8000-000000000002', role: 'coach', skaterId: null, displayName: 'Anouk Brink' };
+const otherCoach: Caller = { userId: '0190f2c4-0000-7000-8000-000000000004', role: 'coach', skaterId: null, displayName: 'Jelle Vink' };
 const skaterA = '0190f2c4-0000-7000-8000-00000000000a';
-const skater: Caller = { userId: '0190f2c4-0000-7000-8000-000000000003', role: 'skater', skaterId: skaterA };
+const skater: Caller = { userId: '0190f2c4-0000-7000-8000-000000000003', role: 'skater', skaterId: skaterA, displayName: 'Fenna Dijk' };
+const guardian: Caller = { userId: '0190f2c4-0000-7000-8000-000000000005', role: 'guardian', skaterId: skaterA, displayName: 'Rob Dijk' };
 const SESSION = '0190f2c4-0000-7000-8000-0000000000f1';
 const CUE = '0190f2c4-0000-7000-8000-0000000000c1';
 
@@ -80,6 +82,63 @@ describe('settleBatch', () => {
     const { results } = settleBatch([a, b], s, context(skater));
     expect(results.get(a.opId)?.status).toBe('applied');
     expect(results.get(b.opId)).toMatchObject({ status: 'rejected', reason: 'permission' });
+  });
+
+  it("writes the author's name from the caller, never from the op, and keeps it fixed", () => {
+    const s = state();
+    const rec = id();
+    const made = create(rec, coach, { authorName: 'Someone Else' });
+    expect(settleBatch([made], s, context(coach)).results.get(made.opId)?.status).toBe('applied');
+    expect(s.records.get(recordKey('observations', rec))?.values.authorName).toBe('Anouk Brink');
+    const rename = upsert(rec, { authorName: 'Renamed', mark: 'good' }, hlc(NOW));
+    settleBatch([rename], s, context(coach));
+    expect(s.records.get(recordKey('observations', rec))?.values).toMatchObject({ authorName: 'Anouk Brink', mark: 'good' });
+  });
+
+  describe('a note is changed by its author or the head coach only', () => {
+    const del = (rec: string): Op => ({ opId: id(), table: 'observations', recordId: rec, kind: 'delete', fields: {}, hlc: { deleted: hlc(NOW) } });
+    const edit = (rec: string) => upsert(rec, { note: 'seen from the far side', mark: 'good' }, hlc(NOW));
+    it.each([
+      ['the author edits', coach, edit, 'applied'],
+      ['the author deletes', coach, del, 'applied'],
+      ['the head coach edits', head, edit, 'applied'],
+      ['the head coach deletes', head, del, 'applied'],
+      ['another coach edits', otherCoach, edit, 'rejected'],
+      ['another coach deletes', otherCoach, del, 'rejected'],
+    ] as const)('%s', (_name, caller, makeOp, status) => {
+      const s = state();
+      const rec = id();
+      settleBatch([create(rec, coach)], s, context(coach));
+      s.records.get(recordKey('observations', rec))!.dirty = false;
+      const op = makeOp(rec);
+      const { results } = settleBatch([op], s, context(caller));
+      expect(results.get(op.opId)).toMatchObject(status === 'applied' ? { status } : { status, reason: 'permission' });
+      const record = s.records.get(recordKey('observations', rec))!;
+      if (status === 'rejected') expect(record).toMatchObject({ dirty: false, deletedAt: null, values: { note: '', mark: 'needs_work' } });
+    });
+
+    it('another coach cannot delete a note the author already deleted either (the same answer)', () => {
+      const s = state();
+      const rec = id();
+      settleBatch([create(rec, coach), del(rec)], s, context(coach));
+      const op = del(rec);
+      expect(settleBatch([op], s, context(otherCoach)).results.get(op.opId)).toMatchObject({ status: 'rejected', reason: 'permission' });
+    });
+
+    it("session and cue changes keep their own rules (any coach edits a session's title)", () => {
+      const s = state();
+      const op = upsert(SESSION, { title: 'Evening ice' }, hlc(NOW), 'sessions');
+      expect(settleBatch([op], s, context(otherCoach)).results.get(op.opId)?.status).toBe('applied');
+    });
+  });
+
+  it('a guardian cannot acknowledge for the skater', () => {
+    const s = state();
+    const rec = id();
+    settleBatch([create(rec, head)], s, context(head));
+    const ack = upsert(rec, { acknowledgedAt: new Date(NOW).toISOString() }, hlc(NOW));
+    expect(settleBatch([ack], s, context(guardian)).results.get(ack.opId)).toMatchObject({ status: 'rejected', reason: 'permission' });
+    expect(s.records.get(recordKey('observations', rec))?.values.acknowledgedAt).toBeNull();
   });
 
   it('a delete wins over a later-clocked edit, and a delete of an unknown id leaves a tombstone that a create cannot undo', () => {

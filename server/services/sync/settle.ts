@@ -4,7 +4,8 @@
  * memory. No I/O: load.ts reads before, write.ts writes after, push.ts holds the transaction.
  *
  *   Push.3  each op is checked for its clock values (done by the caller, passed as `refused`),
- *           role (permission), field values and instants (validation), its author (the token's
+ *           role (permission; a record only its author or the head coach may change, an
+ *           acknowledgement only the skater may give), field values and instants (validation), its author (the token's
  *           user, never another), and for an unknown record whether it carries what a new record
  *           needs (unknown_record).
  *   Push.4  merge per field: the newest clock value wins (values arrive already clamped), fixed
@@ -25,6 +26,8 @@ export interface Caller {
   role: Role;
   /** The skater a skater account is, or a guardian is linked to. */
   skaterId: string | null;
+  /** The account's display name, written on the records it creates (`authorName` fields). */
+  displayName: string;
 }
 
 /** A record as the batch sees it: loaded from the database, then changed in memory. */
@@ -131,12 +134,22 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
     if (op.kind !== 'upsert' || !skaterFieldsOnly || !mine) {
       return rejected(op.opId, 'permission', 'A skater or guardian may only acknowledge their own notes');
     }
+    // A guardian reads along but never acknowledges on the skater's behalf (PRODUCT.md, "Who uses it").
+    if (caller.role !== 'skater') return rejected(op.opId, 'permission', 'Only the skater acknowledges their notes; a guardian reads them');
   } else {
     if (spec.pushBy === 'head_coach' && caller.role !== 'head_coach') {
       return rejected(op.opId, 'permission', `Only the head coach may change ${op.table === 'cues' ? 'the cue library' : op.table}`);
     }
     const skaterField = fieldNames.find((f) => fieldSpec(op.table, f)?.writer === 'own_skater');
     if (skaterField) return rejected(op.opId, 'permission', `Only the skater sets ${skaterField}`);
+    // A record that exists belongs to its author and the head coach, where the table says so. A
+    // tombstone counts as existing (a delete of it is harmless, but it must answer the same).
+    if (spec.changeBy === 'author_or_head_coach' && record.exists && caller.role !== 'head_coach') {
+      const authorField = Object.entries(spec.fields).find(([, f]) => f.author)?.[0];
+      if (authorField && record.values[authorField] !== caller.userId) {
+        return rejected(op.opId, 'permission', `Only its author or the head coach may ${op.kind === 'delete' ? 'delete' : 'change'} this ${op.table.replace(/s$/, '')}`);
+      }
+    }
   }
 
   // Push.3b: the op's shape, its values and its clock values.
@@ -209,7 +222,14 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
     const initial: Record<string, unknown> = {};
     for (const [name, f] of Object.entries(spec.fields)) if (f.rule && f.initial !== undefined) initial[name] = f.initial;
     record.exists = true;
-    record.values = { ...initial, ...values, ...(authorField ? { [authorField]: caller.userId } : {}) };
+    const nameField = Object.entries(spec.fields).find(([, f]) => f.authorName)?.[0];
+    record.values = {
+      ...initial,
+      ...values,
+      ...(authorField ? { [authorField]: caller.userId } : {}),
+      // The name as the account has it now, whatever the device sent.
+      ...(nameField ? { [nameField]: caller.displayName } : {}),
+    };
     record.fieldHlc = Object.fromEntries(Object.keys(values).map((field) => [field, op.hlc[field]]));
     record.dirty = true;
     return applied(op.opId);

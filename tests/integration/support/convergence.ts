@@ -312,7 +312,7 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
         // A skater acknowledges one of their notes (60%) or reads their page.
         const row = action < 60 ? await one<{ id: string }>(device, 'id', 'observations', 'team_id = ? AND deleted = 0 AND acknowledged_at IS NULL', [teamId], pick) : undefined;
         if (row) {
-          await store.acknowledgeObservation(row.id, userId);
+          await store.acknowledgeObservation(row.id, userId, 'skater');
           count('acknowledge');
         } else {
           await store.listForSkater(teamId, person.skaterId!, DAYS[pick % DAYS.length]);
@@ -356,7 +356,8 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
                 : kind === 'editShared'
                   ? { noteShared: !row.note_shared }
                   : { mark: flip, note: `[b${c.index}.${stepIndex}]` };
-          await store.updateObservation(row.id, userId, patch as { mark?: 'good' | 'needs_work'; note?: string; noteShared?: boolean });
+          // A plain coach's edit of someone else's note is refused by the store (StoreError: skipped).
+          await store.updateObservation(row.id, userId, patch as { mark?: 'good' | 'needs_work'; note?: string; noteShared?: boolean }, person.role === 'head' ? 'head_coach' : 'coach');
           count(kind);
         }
       } else if (action < 84) {
@@ -364,7 +365,7 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
         const row = await one<{ id: string }>(device, 'id', 'observations', 'team_id = ? AND deleted = 0', [teamId], pick);
         if (!row) skipped += 1;
         else {
-          await store.removeObservations([row.id], userId);
+          await store.removeObservations([row.id], userId, person.role === 'head' ? 'head_coach' : 'coach');
           deleted.add(row.id);
           count('delete');
         }

@@ -351,14 +351,14 @@ const bool = (v: unknown) => v === true || v === 1;
 export async function deviceState(driver: SqlDriver, teamId: string): Promise<SyncedState & { tombstones: string[] }> {
   const observations: TableState = new Map();
   for (const r of await driver.all<Record<string, string | number | null>>(
-    `SELECT id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by, acknowledged_at, deleted
+    `SELECT id, session_id, skater_id, cue_id, mark, note, note_shared, created_at, created_by, author_name, acknowledged_at, deleted
        FROM observations WHERE team_id = ?`,
     [teamId],
   )) {
     if (r.deleted) continue;
     observations.set(String(r.id), {
       sessionId: r.session_id, skaterId: r.skater_id, cueId: r.cue_id, mark: r.mark, note: r.note, noteShared: bool(r.note_shared),
-      createdAt: r.created_at, createdBy: r.created_by, acknowledgedAt: r.acknowledged_at ?? null,
+      createdAt: r.created_at, createdBy: r.created_by, authorName: r.author_name, acknowledgedAt: r.acknowledged_at ?? null,
     });
   }
   const tombstones = (await driver.all<{ id: string }>(`SELECT id FROM observations WHERE team_id = ? AND deleted = 1`, [teamId])).map((r) => r.id);
