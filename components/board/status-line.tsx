@@ -17,15 +17,17 @@ export type StatusLineProps = {
   pending: { total: number; text: string };
   title?: string;
   rink?: string;
+  /** The phone board: one short line ("2 waiting to be sent"; the full wording is its label). */
+  compact?: boolean;
 };
 
-export function StatusLine({ day, offline, pending, title, rink }: StatusLineProps) {
+export function StatusLine({ day, offline, pending, title, rink, compact = false }: StatusLineProps) {
   const place = [title, rink].filter(Boolean).join(' · ');
   // Intl date formatting is slow, and this line re-renders after every tap (the waiting count).
   const dayLabel = useMemo(() => formatDay(day), [day]);
   return (
-    <View style={styles.line} testID="status-line" accessibilityRole="summary">
-      <Text weight="bold" variant="bodyLarge" testID="status-day">
+    <View style={styles.line} testID="status-line">
+      <Text weight="bold" variant={compact ? 'body' : 'bodyLarge'} testID="status-day">
         {dayLabel}
         {place ? <Text tone="muted">{`  ${place}`}</Text> : null}
       </Text>
@@ -33,8 +35,15 @@ export function StatusLine({ day, offline, pending, title, rink }: StatusLinePro
         {offline ? (
           <OfflineBadge testID="status-offline" accessibilityLabel="Offline: notes are kept on this device" />
         ) : null}
-        <Text variant="caption" tone={pending.total > 0 ? 'default' : 'muted'} weight={pending.total > 0 ? 'bold' : 'regular'} testID="status-pending">
-          {pending.text}
+        <Text
+          variant="caption"
+          tone={pending.total > 0 ? 'default' : 'muted'}
+          weight={pending.total > 0 ? 'bold' : 'regular'}
+          testID="status-pending"
+          accessibilityLabel={compact ? pending.text : undefined}
+          numberOfLines={compact ? 1 : undefined}
+        >
+          {compact && pending.total > 0 ? `${pending.total} waiting to be sent` : pending.text}
         </Text>
       </View>
     </View>

@@ -5,7 +5,13 @@
  * a thumb at the boards. Wide (>= 1024 px): a left rail with the team, the sections and sign-out,
  * and the section's own content beside it — a laptop layout, not a stretched phone.
  *
- * Built on expo-router's headless tabs so the same triggers drive both layouts.
+ * Built on expo-router's headless tabs so the same triggers drive both layouts. For screen readers
+ * the sections are a navigation landmark of links (the current one marked as the page), the
+ * phone's top bar is the banner, the section itself the one main landmark, and the sync details
+ * a modal dialog.
+ *
+ * The team name is never cut short on a phone: it wraps to a second line ("Kettlemere Speed
+ * Club" does not fit one line beside the sync line and sign-out at 390 px).
  */
 import { TabList, TabSlot, TabTrigger, Tabs, type TabTriggerSlotProps } from 'expo-router/ui';
 import { useQueryClient } from '@tanstack/react-query';
@@ -19,7 +25,7 @@ import { useSyncTriggers } from '../../store/sync-status';
 import { SignOutButton } from '../auth/sign-out-button';
 import { SyncPanel, SyncSummary } from '../sync/sync-control';
 import { useActiveMembership, useSession } from '../../store/session';
-import { Text, colors, layout, radius, spacing, tapTarget, useBreakpoint } from '../ui';
+import { InsideMain, Text, colors, layout, radius, spacing, tapTarget, useBreakpoint } from '../ui';
 import { SectionIcon, type CoachSection } from './tab-icons';
 
 const sections: { name: CoachSection; href: '/board' | '/clock' | '/review' | '/squad'; label: string }[] = [
@@ -41,9 +47,8 @@ const SectionButton = forwardRef<ViewType, SectionButtonProps>(function SectionB
       ref={ref}
       {...pressable}
       testID={`tab-${section}`}
-      accessibilityRole="tab"
-      accessibilityLabel={label}
-      accessibilityState={{ selected: !!isFocused }}
+      role="link"
+      aria-current={isFocused ? 'page' : undefined}
       style={[
         wide ? styles.railButton : styles.barButton,
         isFocused && (wide ? styles.railButtonActive : styles.barButtonActive),
@@ -73,7 +78,7 @@ export function CoachShell() {
     <SafeAreaView style={styles.safe} edges={['top', 'bottom', 'left', 'right']}>
       {/* Phone: column-reverse puts the section bar (first in reading order) at the bottom. */}
       <Tabs style={wide ? styles.wideRoot : styles.phoneRoot}>
-        <TabList style={wide ? styles.rail : styles.bar} accessibilityRole="tablist" accessibilityLabel="Sections">
+        <TabList style={wide ? styles.rail : styles.bar} role="navigation" aria-label="Sections">
           {wide ? (
             <View style={styles.railHeader}>
               <Text variant="title" weight="bold" tone="primary">
@@ -99,15 +104,16 @@ export function CoachShell() {
             </View>
           ) : null}
         </TabList>
-        <TabSlot style={styles.slot} />
+        <View style={styles.slot} role="main">
+          <InsideMain.Provider value>
+            <TabSlot style={styles.slot} />
+          </InsideMain.Provider>
+        </View>
         {wide ? null : (
-          <View style={styles.topBar}>
+          <View style={styles.topBar} role="banner">
             <View style={styles.topBarText}>
-              <Text weight="bold" numberOfLines={1} testID="team-name">
+              <Text weight="bold" numberOfLines={2} testID="team-name" style={styles.topBarTeam}>
                 {teamName}
-              </Text>
-              <Text tone="muted" variant="caption" numberOfLines={1}>
-                {roleLabel}
               </Text>
             </View>
             <SyncSummary onOpen={() => setSyncOpen(true)} />
@@ -116,8 +122,9 @@ export function CoachShell() {
         )}
       </Tabs>
       {syncOpen ? (
-        <View style={styles.overlay}>
-          <Pressable style={styles.backdrop} onPress={() => setSyncOpen(false)} accessibilityLabel="Close sync details" />
+        <View style={styles.overlay} role="dialog" aria-modal aria-label="Sync details">
+          {/* A tap beside the panel closes it; keyboards and screen readers use its Close button. */}
+          <Pressable style={styles.backdrop} onPress={() => setSyncOpen(false)} focusable={false} aria-hidden />
           <SyncPanel onClose={() => setSyncOpen(false)} />
         </View>
       ) : null}
@@ -159,7 +166,9 @@ const styles = StyleSheet.create({
     borderBottomWidth: 1,
     borderBottomColor: colors.divider,
   },
-  topBarText: { flex: 1 },
+  topBarText: { flex: 1, paddingVertical: spacing.xxs },
+  // Two lines of a long team name fit the bar's height beside the sync line and sign-out.
+  topBarTeam: { fontSize: 17, lineHeight: 21 },
   rail: {
     width: layout.railWidth,
     flexDirection: 'column',

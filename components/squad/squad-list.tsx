@@ -37,7 +37,7 @@ export type SquadListProps = {
 export function SquadList({ squad, selectedId, onSelect }: SquadListProps) {
   const rows = buildSquadRows(squad);
   return (
-    <View style={styles.list} testID="squad-list" accessibilityRole="list">
+    <View style={styles.list} testID="squad-list">
       {rows.map((row) => {
         switch (row.kind) {
           case 'group':
@@ -64,8 +64,8 @@ export function SquadList({ squad, selectedId, onSelect }: SquadListProps) {
                 key={row.key}
                 testID={`squad-skater-${row.skater.id}`}
                 accessibilityRole="button"
-                accessibilityLabel={`${row.skater.displayName}${row.skater.hasAccount ? ', can sign in' : ''}`}
                 accessibilityState={{ selected }}
+                aria-pressed={selected}
                 onPress={() => onSelect(row.skater)}
                 style={[styles.skater, selected && styles.skaterSelected]}
               >

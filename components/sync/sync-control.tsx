@@ -47,7 +47,7 @@ export function SyncSummary({ onOpen }: { onOpen: () => void }) {
       onPress={onOpen}
       testID="sync-summary"
       accessibilityRole="button"
-      accessibilityLabel={`Sync: ${[text, ...extra].join(', ')}. Open sync details`}
+      // Named by what it shows (speech input users say what they see); it opens the sync details.
       style={({ pressed }) => [styles.summary, pressed && styles.pressed]}
     >
       <Text variant="caption" weight="bold" numberOfLines={1} testID="sync-last">

@@ -30,7 +30,7 @@ export function DayHeader({ offered, selected, today, onSelect, wide = false }: 
           variant="secondary"
           testID="day-prev"
           disabled={!earlier}
-          accessibilityLabel={earlier ? `Earlier: ${longDay(earlier, today)}` : 'No earlier days with cues'}
+          accessibilityLabel={earlier ? `Earlier: ${longDay(earlier, today)}` : 'Earlier: no earlier days with cues'}
           onPress={() => earlier && onSelect(earlier)}
           style={styles.step}
         />
@@ -39,7 +39,7 @@ export function DayHeader({ offered, selected, today, onSelect, wide = false }: 
           variant="secondary"
           testID="day-next"
           disabled={!later}
-          accessibilityLabel={later ? `Later: ${longDay(later, today)}` : 'No later days'}
+          accessibilityLabel={later ? `Later: ${longDay(later, today)}` : 'Later: no later days'}
           onPress={() => later && onSelect(later)}
           style={styles.step}
         />
@@ -61,7 +61,8 @@ function DayButton({ d, selected, today, onSelect, wide }: { d: SkaterDay; selec
       testID={`day-${d.day}`}
       accessibilityRole="button"
       accessibilityState={{ selected }}
-      accessibilityLabel={`${longDay(d.day, today)}: ${dayDetail(d)}${selected ? ', shown' : ''}`}
+      // Named by what it shows ("Mon 1 Dec, 3 cues"); the day shown is the current date.
+      aria-current={selected ? 'date' : undefined}
       onPress={() => onSelect(d.day)}
       style={({ pressed, focused }: { pressed: boolean; focused?: boolean }) => [
         styles.day,
@@ -88,11 +89,17 @@ export function RecentDays({ offered, selected, today, onSelect, wide }: DayChoo
   ));
   if (wide) {
     return (
-      <View style={styles.list} testID="today-days" accessibilityRole="list" accessibilityLabel="Recent days">
+      <View style={styles.list}>
         <Text weight="bold" tone="muted">
           Recent days
         </Text>
-        {buttons}
+        <View style={styles.list} testID="today-days" role="list" aria-label="Recent days">
+          {buttons.map((button) => (
+            <View key={button.key} role="listitem">
+              {button}
+            </View>
+          ))}
+        </View>
       </View>
     );
   }

@@ -16,7 +16,7 @@ export interface SyncLineProps {
 export function SyncLine({ offline, onRefresh }: SyncLineProps) {
   const { lastSyncAt, running, pending, error } = useSyncStatus();
   return (
-    <View style={styles.wrap} testID="today-sync" accessibilityRole="summary">
+    <View style={styles.wrap} testID="today-sync">
       <View style={styles.line}>
         {offline ? (
           <OfflineBadge large testID="today-offline" accessibilityLabel="Offline: your cues are kept on this device" />

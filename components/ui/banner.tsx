@@ -29,7 +29,8 @@ export function Banner({ kind = 'info', title, children, testID }: BannerProps) 
   return (
     <View
       testID={testID}
-      accessibilityRole={kind === 'error' ? 'alert' : 'summary'}
+      // A status (polite live region), not an unnamed region landmark.
+      role={kind === 'error' ? 'alert' : 'status'}
       aria-live={kind === 'error' ? 'assertive' : 'polite'}
       style={[styles.banner, { backgroundColor: surface, borderColor: ink }]}
     >

@@ -1,7 +1,8 @@
 /**
  * Button: primary (one per screen, the main action), secondary (outlined), quiet (text-like, for
  * "Forgot password?" and "Sign out"). Always at least 48 px tall. While loading it is disabled and
- * says so to screen readers, so a double tap in gloves cannot submit twice.
+ * says so to screen readers, so a double tap in gloves cannot submit twice. A disabled button looks
+ * off at a glance (sunken, dashed edge, muted label), never like a live one a little paler.
  */
 import { ActivityIndicator, Pressable, StyleSheet, View, type StyleProp, type ViewStyle } from 'react-native';
 
@@ -37,7 +38,8 @@ export function Button({
   block = false,
 }: ButtonProps) {
   const inactive = disabled || loading;
-  const ink = variant === 'primary' ? colors.onPrimary : colors.primary;
+  const off = disabled && !loading;
+  const ink = off ? colors.inkMuted : variant === 'primary' ? colors.onPrimary : colors.primary;
   return (
     <Pressable
       testID={testID}
@@ -45,6 +47,8 @@ export function Button({
       accessibilityLabel={accessibilityLabel ?? label}
       accessibilityHint={accessibilityHint}
       accessibilityState={{ disabled: inactive, busy: loading }}
+      aria-disabled={inactive}
+      aria-busy={loading}
       disabled={inactive}
       onPress={onPress}
       style={({ pressed, focused }: { pressed: boolean; focused?: boolean }) => [
@@ -53,7 +57,9 @@ export function Button({
         block && styles.block,
         pressed && !inactive && styles.pressed,
         focused && styles.focused,
-        inactive && styles.inactive,
+        loading && styles.inactive,
+        off && styles.off,
+        off && variant === 'quiet' && styles.offQuiet,
         style,
       ]}
     >
@@ -87,5 +93,8 @@ const styles = StyleSheet.create({
   focused: { outlineColor: colors.focus, outlineWidth: 3, outlineStyle: 'solid', outlineOffset: 2 } as ViewStyle,
   // Dimmed but still readable: the label keeps well over 4.5:1 at this opacity.
   inactive: { opacity: 0.7 },
+  // Disabled: no fill or solid edge of a live button; the muted label stays readable (7.5:1).
+  off: { backgroundColor: colors.surfaceSunken, borderColor: colors.border, borderStyle: 'dashed' },
+  offQuiet: { backgroundColor: 'transparent', borderColor: 'transparent' },
   row: { flexDirection: 'row', alignItems: 'center', gap: spacing.xs },
 });

@@ -33,6 +33,7 @@ export function ChoiceChips<T extends string>({ label, choices, value, onChange,
               accessibilityRole="radio"
               accessibilityLabel={choice.label}
               accessibilityState={{ selected, checked: selected }}
+              aria-checked={selected}
               onPress={() => onChange(choice.value)}
               style={[styles.chip, selected && styles.chipSelected]}
             >

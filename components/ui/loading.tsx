@@ -6,8 +6,9 @@ import { colors, spacing } from './theme';
 
 export function Loading({ label = 'Loading…', testID = 'loading' }: { label?: string; testID?: string }) {
   return (
-    <View style={styles.wrap} testID={testID} accessibilityRole="progressbar" accessibilityLabel={label}>
-      <ActivityIndicator size="large" color={colors.primary} />
+    <View style={styles.wrap} testID={testID} role="status">
+      {/* The spinner is decoration: the words beside it say what is happening. */}
+      <ActivityIndicator size="large" color={colors.primary} aria-hidden />
       <Text tone="muted">{label}</Text>
     </View>
   );

@@ -2,8 +2,11 @@
  * Screen: the frame of every page. Keeps content inside the safe area (notches, home bar), scrolls
  * when the keyboard or a small phone needs it, and caps the content width so a laptop shows a
  * readable column or a designed multi-pane layout instead of a stretched phone.
+ *
+ * A screen is the page's main landmark, unless a frame around it (the coach's sections) already
+ * is one: a page has exactly one, so screen readers can jump straight to the content.
  */
-import type { ReactNode } from 'react';
+import { createContext, useContext, type ReactNode } from 'react';
 import { ScrollView, StyleSheet, View, type StyleProp, type ViewStyle } from 'react-native';
 import { SafeAreaView, type Edge } from 'react-native-safe-area-context';
 
@@ -22,6 +25,9 @@ export type ScreenProps = {
   contentStyle?: StyleProp<ViewStyle>;
 };
 
+/** Set by a frame that is itself the main landmark; screens inside it then add none. */
+export const InsideMain = createContext(false);
+
 const maxWidths = { form: layout.formMaxWidth, content: layout.contentMaxWidth, full: undefined } as const;
 
 export function Screen({
@@ -34,11 +40,12 @@ export function Screen({
   contentStyle,
 }: ScreenProps) {
   const wide = useBreakpoint() === 'wide';
+  const inMain = useContext(InsideMain);
   const column = (
     <View style={[styles.column, !centered && styles.grow, { maxWidth: maxWidths[width] }, contentStyle]}>{children}</View>
   );
   return (
-    <SafeAreaView style={styles.safe} edges={edges} testID={testID}>
+    <SafeAreaView style={styles.safe} edges={edges} testID={testID} role={inMain ? undefined : 'main'}>
       {scroll ? (
         <ScrollView
           style={styles.fill}

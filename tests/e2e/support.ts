@@ -100,12 +100,12 @@ export async function apiCoachWithSkaters(base: string, names: string[]) {
   return { coach, skaters, cues };
 }
 
-export async function signInThroughForm(page: Page, base: string, email: string, password: string) {
+export async function signInThroughForm(page: Page, base: string, email: string, password: string, timeout?: number) {
   await page.goto(`${base}/sign-in`);
   await page.getByTestId('sign-in-email').fill(email);
   await page.getByTestId('sign-in-password').fill(password);
   await page.getByTestId('sign-in-submit').click();
-  await expect(page.getByTestId('coach-home')).toBeVisible();
+  await expect(page.getByTestId('coach-home')).toBeVisible({ timeout });
 }
 
 /**
@@ -135,4 +135,44 @@ export function ownServer(port: number) {
       await expect.poll(up).toBe(false);
     },
   };
+}
+
+const axeSource = readFileSync(require.resolve('axe-core/axe.min.js'), 'utf8');
+
+type AxeViolation = {
+  id: string;
+  impact: string | null;
+  help: string;
+  nodes: { target: unknown[]; html: string; failureSummary?: string }[];
+};
+
+/**
+ * Runs axe-core (shipped in node_modules, injected into the page: nothing is fetched) on the page
+ * as it is now, at its current width, and fails on any violation, listing each rule with the
+ * elements that break it. `label` names the screen in the failure message. The check is soft: the
+ * test goes on to its other screens and fails at its end, with every violation found listed.
+ */
+export async function expectNoA11yViolations(page: Page, label: string) {
+  const injected = await page.evaluate(() => typeof (window as { axe?: unknown }).axe !== 'undefined');
+  if (!injected) {
+    // The app's content security policy refuses inline scripts; evaluating the source through the
+    // browser's debugging protocol is not subject to it.
+    await page.evaluate(axeSource);
+  }
+  const violations = await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: (context: Document, options: object) => Promise<{ violations: AxeViolation[] }> } }).axe;
+    const result = await axe.run(document, { resultTypes: ['violations'] });
+    return result.violations.map((v) => ({
+      id: v.id,
+      impact: v.impact,
+      help: v.help,
+      nodes: v.nodes.map((n) => ({ target: n.target, html: n.html.slice(0, 200), failureSummary: n.failureSummary })),
+    }));
+  });
+  const width = page.viewportSize()?.width ?? 0;
+  const report = violations
+    .map((v) => `${v.impact ?? 'unknown'} ${v.id}: ${v.help}\n${v.nodes.map((n) => `    ${JSON.stringify(n.target)} ${n.html}`).join('\n')}`)
+    .join('\n');
+  // Soft: every screen of a test is checked and reported before the test fails.
+  expect.soft(violations, `accessibility violations on ${label} at ${width} px:\n${report}`).toEqual([]);
 }
