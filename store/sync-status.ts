@@ -35,7 +35,7 @@ export type SyncStatus = {
   progress: SyncProgress | null;
   /** Why the last run failed (a sentence naming the step), or null. */
   error: string | null;
-  /** Changes waiting to be sent. */
+  /** Records with changes waiting to be sent (a note edited twice offline is one): every counter shows this. */
   pending: number;
   /** Changes the server refused, waiting for the coach (see listRejectedChanges). */
   rejected: number;
@@ -57,7 +57,7 @@ export const useSyncStatus = create<SyncStatus>()(() => ({
 /** Re-reads lastSyncAt and the pending / rejected counts from the device. */
 export async function refreshSyncStatus(teamId: string): Promise<void> {
   const store = await deviceStore();
-  const [lastSyncAt, pending, rejected] = await Promise.all([store.lastSyncAt(teamId), store.pendingCount(teamId), store.rejectedCount(teamId)]);
+  const [lastSyncAt, pending, rejected] = await Promise.all([store.lastSyncAt(teamId), store.pendingRecordCount(teamId), store.rejectedCount(teamId)]);
   useSyncStatus.setState({ teamId, lastSyncAt, pending, rejected });
 }
 
@@ -174,9 +174,12 @@ export function useSyncTriggers(teamId: string | null | undefined, onChanged?: (
     let lastPending = -1;
     const poll = setInterval(() => {
       void (async () => {
-        const pending = await (await deviceStore()).pendingCount(teamId);
-        if (lastPending >= 0 && pending > lastPending) scheduler.changed();
-        lastPending = pending;
+        const store = await deviceStore();
+        // Entries, not records: a second edit of a waiting note is a change to send too.
+        const entries = await store.pendingCount(teamId);
+        if (lastPending >= 0 && entries > lastPending) scheduler.changed();
+        lastPending = entries;
+        const pending = await store.pendingRecordCount(teamId);
         if (useSyncStatus.getState().pending !== pending) useSyncStatus.setState({ pending });
       })().catch(() => undefined);
     }, POLL_MS);

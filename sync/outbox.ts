@@ -120,6 +120,21 @@ export async function countOutbox(ctx: StoreContext, status: 'pending' | 'reject
   return n;
 }
 
+/**
+ * How many records (a note, a session, a cue) have changes waiting to be sent: what the coach
+ * reads as "changes waiting". A note taken and then edited twice offline is three entries but one
+ * waiting change. (countOutbox counts entries: the sync triggers watch it grow.)
+ */
+export async function countPendingRecords(ctx: StoreContext, teamId?: string): Promise<number> {
+  const mine = ctx.mine();
+  const team = teamFilter(teamId);
+  const [{ n }] = await ctx.db.all<{ n: number }>(
+    `SELECT count(*) AS n FROM (SELECT DISTINCT tbl, record_id FROM outbox WHERE status = 'pending'${team.sql}${mine.sql})`,
+    [...team.params, ...mine.params],
+  );
+  return n;
+}
+
 /** Changes the server refused, oldest first, each with its reason (the signed-in user's only). */
 export async function listRejected(ctx: StoreContext, teamId?: string): Promise<OutboxEntry[]> {
   const mine = ctx.mine();
@@ -131,12 +146,13 @@ export async function listRejected(ctx: StoreContext, teamId?: string): Promise<
   return rows.map(toOutboxEntry);
 }
 
-/** Waiting changes per table, for a status line that says what is waiting. */
-export async function pendingByTable(ctx: StoreContext): Promise<Record<SyncedTable, number>> {
+/** Records with waiting changes per table, for a status line that says what is waiting. */
+export async function pendingByTable(ctx: StoreContext, teamId?: string): Promise<Record<SyncedTable, number>> {
   const mine = ctx.mine();
+  const team = teamFilter(teamId);
   const rows = await ctx.db.all<{ tbl: SyncedTable; n: number }>(
-    `SELECT tbl, count(*) AS n FROM outbox WHERE status = 'pending'${mine.sql} GROUP BY tbl`,
-    mine.params,
+    `SELECT tbl, count(DISTINCT record_id) AS n FROM outbox WHERE status = 'pending'${team.sql}${mine.sql} GROUP BY tbl`,
+    [...team.params, ...mine.params],
   );
   const counts: Record<SyncedTable, number> = { observations: 0, sessions: 0, cues: 0 };
   for (const r of rows) counts[r.tbl] = r.n;

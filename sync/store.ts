@@ -411,9 +411,14 @@ export class DeviceStore {
 
   // ---- the outbox (the signed-in user's entries only) ---------------------------------------
 
-  /** Changes waiting to be sent (not counting rejected ones, which wait for the coach). */
+  /** Outbox entries waiting to be sent (not counting rejected ones, which wait for the coach). */
   pendingCount(teamId?: string): Promise<number> {
     return outbox.countOutbox(this.ctx, 'pending', teamId);
+  }
+
+  /** Records with changes waiting to be sent: the one count every "waiting" the coach reads shows. */
+  pendingRecordCount(teamId?: string): Promise<number> {
+    return outbox.countPendingRecords(this.ctx, teamId);
   }
 
   rejectedCount(teamId?: string): Promise<number> {
@@ -437,9 +442,9 @@ export class DeviceStore {
     return outbox.discardRejected(this.ctx, opId);
   }
 
-  /** Waiting changes per table, for a status line that says what is waiting. */
-  pendingByTable(): Promise<Record<SyncedTable, number>> {
-    return outbox.pendingByTable(this.ctx);
+  /** Records with waiting changes per table, for a status line that says what is waiting. */
+  pendingByTable(teamId?: string): Promise<Record<SyncedTable, number>> {
+    return outbox.pendingByTable(this.ctx, teamId);
   }
 
   /** The signed-in user's outbox, oldest first. */

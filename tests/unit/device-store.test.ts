@@ -145,6 +145,18 @@ describe('DeviceStore', () => {
     expect(ops[1].hlc.mark > ops[0].hlc.mark).toBe(true);
   });
 
+  it('counts waiting records, not entries: a note edited twice offline is one waiting change', async () => {
+    const { store, session } = await openStore();
+    const [o] = await store.recordObservations({ teamId: TEAM, userId: COACH, sessionId: session.id, skaterIds: [skaterIds[1]], cueId: cue.id, mark: 'needs_work' });
+    await store.updateObservation(o.id, COACH, { note: 'Knee over the toe' });
+    await store.updateObservation(o.id, COACH, { mark: 'good' });
+    expect(await store.pendingCount(TEAM)).toBe(4); // three entries for the note, one for the session
+    expect(await store.pendingRecordCount(TEAM)).toBe(2);
+    expect(await store.pendingRecordCount()).toBe(2);
+    expect(await store.pendingByTable(TEAM)).toEqual({ observations: 1, sessions: 1, cues: 0 });
+    expect(await store.pendingRecordCount('0193a000-0000-7000-8000-00000000bbbb')).toBe(0);
+  });
+
   it('refuses a note over the limit with a clear message and writes nothing', async () => {
     const { store, session } = await openStore();
     const before = await store.pendingCount();
