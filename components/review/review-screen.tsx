@@ -1,14 +1,18 @@
-/** The evening review (best on a laptop): placeholder until sync and the summaries land. */
+/**
+ * The Evening section: not built yet. It says so plainly and points to what works today, without
+ * describing summaries that are not there.
+ */
 import { Heading, PlaceholderPanel, Screen, Text } from '../ui';
 
 export function ReviewScreen() {
   return (
     <Screen testID="review-home" edges={[]}>
       <Heading>Evening</Heading>
-      <Text variant="bodyLarge">Look back on the day once everything has synced.</Text>
-      <PlaceholderPanel title="Weekly summaries are on their way" testID="review-placeholder">
-        Cues per skater week by week, needs-work against good, lap-time trends per distance, and tidying up the
-        session: fixing mis-taps, adding notes and planning the next focus cues.
+      <PlaceholderPanel title="Not in this version of Boardside" testID="review-placeholder">
+        <Text tone="muted">
+          There is no evening review yet. Today’s notes are on the Board, where you can open a note to change or delete
+          it; Sync sends them to your team.
+        </Text>
       </PlaceholderPanel>
     </Screen>
   );
