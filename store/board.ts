@@ -15,7 +15,8 @@ import { v7 as uuidv7 } from 'uuid';
 import type { Phase } from '../shared/cues';
 import { type BoardSessionPatch, type Mark, type Observation, type ObservationPatch } from '../shared/schemas';
 import { deviceStore } from '../sync';
-import { useSession } from './session';
+import { useActiveMembership, useSession } from './session';
+import { useTeamSettings } from './team-settings';
 
 export const boardKeys = {
   all: ['device'] as const,
@@ -125,6 +126,12 @@ export function useRecordObservations() {
   const userId = useSession((s) => s.user?.id ?? '');
   const userRef = useRef(userId);
   userRef.current = userId;
+  // Who wrote the note (shown at once; the server writes its own copy) and the team's sharing
+  // default (the last known value offline).
+  const authorName = useSession((s) => s.user?.displayName ?? '');
+  const shareDefault = useTeamSettings(useActiveMembership()?.teamId).shareBoardNotes;
+  const authorRef = useRef({ authorName, shareDefault });
+  authorRef.current = { authorName, shareDefault };
   const mounted = useRef(true);
   useEffect(() => {
     mounted.current = true;
@@ -137,6 +144,7 @@ export function useRecordObservations() {
   const mutate = useCallback(
     (args: RecordVariables) => {
       const createdBy = userRef.current;
+      const { authorName: author, shareDefault: shared } = authorRef.current;
       const key = boardKeys.observations(args.sessionId);
       const createdAt = new Date().toISOString();
       const optimistic: Observation[] = args.skaterIds.map((skaterId, index) => ({
@@ -147,9 +155,10 @@ export function useRecordObservations() {
         cueId: args.cueId,
         mark: args.mark,
         note: args.note?.trim() ?? '',
-        noteShared: false,
+        noteShared: shared,
         createdAt,
         createdBy,
+        authorName: author,
       }));
       // Newest first, the rest of the list (and every object in it) untouched, so memoised feed
       // items and tile counts see only what changed.
@@ -158,7 +167,7 @@ export function useRecordObservations() {
 
       void (async () => {
         try {
-          await (await deviceStore()).recordObservations({ ...args, userId: createdBy });
+          await (await deviceStore()).recordObservations({ ...args, userId: createdBy, authorName: author, noteShared: shared });
           // A User Timing mark: the benchmark measures tap-to-commit from it (cheap, standard API).
           performance.mark('boardside:committed', { detail: args.ids });
         } catch (error) {
@@ -186,10 +195,11 @@ export const newObservationIds = (count: number) => Array.from({ length: count }
 export function useRemoveObservations() {
   const client = useQueryClient();
   const userId = useSession((s) => s.user?.id ?? '');
+  const role = useActiveMembership()?.role;
   return useMutation({
     networkMode: 'always',
     mutationFn: async (args: { sessionId: string; ids: readonly string[] }) =>
-      (await deviceStore()).removeObservations(args.ids, userId),
+      (await deviceStore()).removeObservations(args.ids, userId, role),
     onMutate: async (args) => {
       const key = boardKeys.observations(args.sessionId);
       const previous = client.getQueryData<Observation[]>(key);
@@ -207,10 +217,11 @@ export function useRemoveObservations() {
 export function useUpdateObservation() {
   const client = useQueryClient();
   const userId = useSession((s) => s.user?.id ?? '');
+  const role = useActiveMembership()?.role;
   return useMutation({
     networkMode: 'always',
     mutationFn: async (args: { sessionId: string; id: string; patch: ObservationPatch }) =>
-      (await deviceStore()).updateObservation(args.id, userId, args.patch),
+      (await deviceStore()).updateObservation(args.id, userId, args.patch, role),
     onMutate: async (args) => {
       const key = boardKeys.observations(args.sessionId);
       const previous = client.getQueryData<Observation[]>(key);

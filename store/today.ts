@@ -11,7 +11,7 @@ import { queryOptions, useMutation, useQuery, useQueryClient, type QueryClient }
 
 import { deviceStore, localDay } from '../sync';
 import type { SkaterDay, SkaterNote } from '../sync/store';
-import { useSession } from './session';
+import { useActiveMembership, useSession } from './session';
 import { notifyLocalChange } from './sync-status';
 
 export type { SkaterDay, SkaterNote } from '../sync/store';
@@ -81,9 +81,11 @@ export interface AcknowledgeArgs {
 export function useAcknowledge() {
   const client = useQueryClient();
   const userId = useSession((s) => s.user?.id ?? '');
+  // Only the skater acknowledges: the device store (and the server) refuse a guardian.
+  const role = useActiveMembership()?.role;
   return useMutation({
     networkMode: 'always',
-    mutationFn: async (args: AcknowledgeArgs) => (await deviceStore()).acknowledgeObservation(args.id, userId),
+    mutationFn: async (args: AcknowledgeArgs) => (await deviceStore()).acknowledgeObservation(args.id, userId, role),
     onMutate: async (args) => {
       const key = todayKeys.notes(args.teamId, args.skaterId, args.day);
       await client.cancelQueries({ queryKey: key });

@@ -24,6 +24,8 @@ export interface SkaterNote {
   noteShared: boolean;
   createdAt: string;
   createdBy: string;
+  /** The author's name when the note was made ('' on notes from before names were kept). */
+  authorName?: string;
   acknowledgedAt: string | null;
 }
 
@@ -45,7 +47,7 @@ type NoteFields = Omit<SkaterNote, 'cueLabel' | 'phase' | 'cueOrder'>;
  */
 export async function listForSkater(ctx: StoreContext, teamId: string, skaterId: string, day: string): Promise<SkaterNote[]> {
   const rows = await ctx.db.all<Record<string, SqlValue> & { cue_label: string | null; cue_phase: Phase | null; cue_order: number | null }>(
-    `SELECT o.id, o.session_id, o.cue_id, o.mark, o.note, o.note_shared, o.created_at, o.created_by, o.acknowledged_at,
+    `SELECT o.id, o.session_id, o.cue_id, o.mark, o.note, o.note_shared, o.created_at, o.created_by, o.author_name, o.acknowledged_at,
             c.label AS cue_label, c.phase AS cue_phase, c.sort_order AS cue_order
      FROM observations o
      LEFT JOIN sessions s ON s.id = o.session_id

@@ -10,7 +10,9 @@
 import { memo, useCallback, useRef, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 
+import { coachShortName, mayChangeNote } from '../../shared/authors';
 import type { Cue, Mark, Observation, ObservationPatch, Skater } from '../../shared/schemas';
+import { useActiveMembership, useSession } from '../../store/session';
 import { Button, MarkBadge, MarkShape, Text, ToggleRow, colors, marks, radius, spacing, tapTarget } from '../ui';
 import { formatTime, markKind } from './format';
 import { NoteField, noteTooLong } from './note-field';
@@ -50,6 +52,9 @@ export function NoteFeed({ observations, skaters, cues, onSave, onDelete }: Note
     setOpenId(null);
   }, []);
   const cancelEdit = useCallback(() => setOpenId(null), []);
+  // A coach changes their own notes, the head coach any: the others are shown read-only.
+  const userId = useSession((s) => s.user?.id ?? '');
+  const role = useActiveMembership()?.role;
 
   if (observations.length === 0) {
     return (
@@ -71,6 +76,8 @@ export function NoteFeed({ observations, skaters, cues, onSave, onDelete }: Note
             observation={o}
             skater={skaters.get(o.skaterId)?.displayName ?? 'Skater no longer in the squad'}
             label={cue ? `${cue.label}${cue.archived ? ' (archived)' : ''}` : 'Cue not on this device'}
+            author={coachShortName(o.authorName)}
+            canChange={mayChangeNote(o, userId, role)}
             open={openId === o.id}
             confirming={confirmId === o.id}
             onToggleOpen={toggleOpen}
@@ -98,6 +105,10 @@ type FeedItemProps = {
   observation: Observation;
   skater: string;
   label: string;
+  /** "Coach Anouk", or '' for a note from before names were kept. */
+  author: string;
+  /** Whether this coach may edit and delete the note (its author, or the head coach). */
+  canChange: boolean;
   open: boolean;
   confirming: boolean;
   onToggleOpen: (id: string) => void;
@@ -112,6 +123,8 @@ const FeedItem = memo(function FeedItem({
   observation: o,
   skater,
   label,
+  author,
+  canChange,
   open,
   confirming,
   onToggleOpen,
@@ -127,9 +140,10 @@ const FeedItem = memo(function FeedItem({
       <View style={styles.itemRow}>
         <Pressable
           testID={`feed-open-${o.id}`}
-          accessibilityRole="button"
-          accessibilityLabel={`${skater}, ${label}, ${marks[markKind(o.mark)].word}, ${time}. Edit`}
-          accessibilityState={{ expanded: open }}
+          accessibilityRole={canChange ? 'button' : undefined}
+          accessibilityLabel={`${skater}, ${label}, ${marks[markKind(o.mark)].word}, ${time}${author ? `, from ${author}` : ''}.${canChange ? ' Edit' : ''}`}
+          accessibilityState={canChange ? { expanded: open } : undefined}
+          disabled={!canChange}
           onPress={() => onToggleOpen(o.id)}
           style={({ pressed }) => [styles.itemMain, pressed && styles.pressed]}
         >
@@ -142,6 +156,11 @@ const FeedItem = memo(function FeedItem({
             </Text>
           </View>
           <Text>{label}</Text>
+          {author ? (
+            <Text variant="caption" tone="muted" testID={`feed-author-${o.id}`}>
+              from {author}
+            </Text>
+          ) : null}
           <View style={styles.itemHead}>
             <MarkBadge kind={markKind(o.mark)} testID={`feed-mark-${o.id}`} />
             {o.acknowledgedAt ? (
@@ -161,7 +180,7 @@ const FeedItem = memo(function FeedItem({
             </Text>
           ) : null}
         </Pressable>
-        {confirming ? null : (
+        {confirming || !canChange ? null : (
           <Button
             label="Delete"
             variant="quiet"
@@ -180,7 +199,7 @@ const FeedItem = memo(function FeedItem({
           <Button label="Keep" variant="secondary" onPress={onKeep} testID={`feed-delete-cancel-${o.id}`} />
         </View>
       ) : null}
-      {open ? <EditPanel key={o.id} observation={o} onCancel={onCancelEdit} onSave={(patch) => onSave(o.id, patch)} /> : null}
+      {open && canChange ? <EditPanel key={o.id} observation={o} onCancel={onCancelEdit} onSave={(patch) => onSave(o.id, patch)} /> : null}
     </View>
   );
 });

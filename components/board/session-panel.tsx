@@ -9,6 +9,7 @@ import { StyleSheet, View } from 'react-native';
 import { phaseLabels, phases } from '../../shared/cues';
 import type { BoardSession, BoardSessionPatch, Cue } from '../../shared/schemas';
 import { Banner, Button, Card, Text, TextField, ToggleRow, spacing } from '../ui';
+import { ShareDefaultSwitch } from './share-default-switch';
 import { formatDay, plural } from './format';
 
 export const FOCUS_MAX = 6;
@@ -72,6 +73,7 @@ export function SessionPanel({ session, cues, error, saving, onSave }: SessionPa
       ) : null}
       {open ? (
         <View style={styles.body}>
+          <ShareDefaultSwitch />
           <TextField label="Rink" value={rink} onChangeText={setRink} maxLength={80} placeholder="Which rink or oval?" testID="session-rink" />
           <TextField label="Title (optional)" value={title} onChangeText={setTitle} maxLength={80} placeholder="e.g. Tempo laps, starts" testID="session-title" />
           <Button

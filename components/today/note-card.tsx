@@ -1,9 +1,12 @@
 /**
- * One note on the skater's page: the cue in large type, its mark (shape + word), the coach's note
- * when it is shared, the time, and "Got it", which turns into a plain "Acknowledged" line.
+ * One note on the skater's page: the cue in large type, its mark (shape + word), who wrote it
+ * ("from Coach Anouk"), the coach's note when it is shared, the time, and "Got it", which turns
+ * into a plain "Acknowledged" line. "Got it" is the skater's alone: a guardian sees whether the
+ * skater has read it, and a plain read-only line instead of the button.
  */
 import { StyleSheet, View } from 'react-native';
 
+import { coachShortName } from '../../shared/authors';
 import type { SkaterNote } from '../../store/today';
 import { Button, MarkBadge, Text, colors, radius, spacing, tapTarget } from '../ui';
 import { clockTime, cueText, markKind, sharedNote } from './format';
@@ -11,13 +14,14 @@ import { clockTime, cueText, markKind, sharedNote } from './format';
 export interface NoteCardProps {
   note: SkaterNote;
   onAcknowledge: (id: string) => void;
-  /** A guardian acknowledges on the skater's behalf: the button says so to screen readers. */
+  /** A guardian reads along: no "Got it" (only the skater acknowledges). */
   guardian?: boolean;
 }
 
 export function NoteCard({ note, onAcknowledge, guardian = false }: NoteCardProps) {
   const text = sharedNote(note);
   const cue = cueText(note);
+  const author = coachShortName(note.authorName);
   return (
     <View style={styles.card} testID={`note-${note.id}`}>
       <Text variant="title" weight="bold" testID={`note-cue-${note.id}`}>
@@ -28,6 +32,11 @@ export function NoteCard({ note, onAcknowledge, guardian = false }: NoteCardProp
         <Text tone="muted" accessibilityLabel={`Noted at ${clockTime(note.createdAt)}`}>
           {clockTime(note.createdAt)}
         </Text>
+        {author ? (
+          <Text tone="muted" testID={`note-author-${note.id}`}>
+            from {author}
+          </Text>
+        ) : null}
       </View>
       {text ? (
         <View style={styles.note} testID={`note-text-${note.id}`}>
@@ -51,13 +60,20 @@ export function NoteCard({ note, onAcknowledge, guardian = false }: NoteCardProp
           </Text>
           <Text style={styles.ackedInk}>{clockTime(note.acknowledgedAt)}</Text>
         </View>
+      ) : guardian ? (
+        <View style={styles.readOnly} testID={`read-only-${note.id}`}>
+          <Text weight="bold">Not yet read by the skater</Text>
+          <Text tone="muted" variant="caption">
+            Read only: only the skater can say they got it.
+          </Text>
+        </View>
       ) : (
         <Button
           label="Got it"
           variant="secondary"
           testID={`ack-${note.id}`}
           accessibilityLabel={`Got it: ${cue}`}
-          accessibilityHint={guardian ? 'Tells the coaches this cue was read (as guardian)' : 'Tells your coaches you read this cue'}
+          accessibilityHint="Tells your coaches you read this cue"
           onPress={() => onAcknowledge(note.id)}
           style={styles.ack}
         />
@@ -95,4 +111,15 @@ const styles = StyleSheet.create({
     borderColor: colors.success,
   },
   ackedInk: { color: colors.success },
+  readOnly: {
+    minHeight: tapTarget,
+    justifyContent: 'center',
+    gap: 2,
+    paddingHorizontal: spacing.md,
+    paddingVertical: spacing.xs,
+    borderRadius: radius.md,
+    borderWidth: 1,
+    borderStyle: 'dashed',
+    borderColor: colors.border,
+  },
 });

@@ -64,7 +64,7 @@ export function TodayScreen() {
       <Heading testID="today-heading">{heading}</Heading>
       {guardian ? (
         <Text variant="bodyLarge" testID="guardian-note">
-          You are viewing as {possessive(skaterFirst)} guardian
+          You are viewing as {possessive(skaterFirst)} guardian (read only)
           {membership?.teamName ? <Text variant="bodyLarge" tone="muted">{` · ${membership.teamName}`}</Text> : null}
         </Text>
       ) : (
@@ -120,7 +120,9 @@ export function TodayScreen() {
     <View style={styles.groups}>
       <View style={styles.summaryRow}>
         <Text variant="bodyLarge" weight="bold" testID="today-summary" style={styles.grow}>
-          {open === 0 ? `${plural(total, 'cue', 'cues')}, all acknowledged` : `${plural(total, 'cue', 'cues')}, ${open} to acknowledge`}
+          {open === 0
+            ? `${plural(total, 'cue', 'cues')}, all acknowledged`
+            : `${plural(total, 'cue', 'cues')}, ${open} ${guardian ? 'not yet read by the skater' : 'to acknowledge'}`}
         </Text>
         <ReadAloud lines={script} resetKey={selected} />
       </View>

@@ -39,7 +39,7 @@ const note = (id: string, phase: string | null, cueLabel: string | null, over: R
 const notesByDay: Record<string, ReturnType<typeof note>[]> = {
   [TODAY]: [
     // Given in time order; the page shows them phase by phase (start, ..., curve, ..., pacing).
-    note('n-curve', 'curve', 'Lean in from the ankle', { note: 'Lower hips in lap 3', noteShared: true }),
+    note('n-curve', 'curve', 'Lean in from the ankle', { note: 'Lower hips in lap 3', noteShared: true, authorName: 'Anouk Brink' }),
     note('n-pacing', 'pacing', 'Even laps', { mark: 'good' }),
     note('n-start', 'start', 'Sit lower in the set', { note: 'private words', noteShared: false }),
     note('n-curve2', 'curve', 'Hug the blocks', { acknowledgedAt: '2026-12-02T10:30:00.000Z' }),
@@ -222,5 +222,26 @@ describe('TodayScreen', () => {
     await waitFor(() => getByTestIdWeb('guardian-note'));
     expect(textOf(getByTestIdWeb('today-heading'))).toBe('Fenna’s cues');
     expect(textOf(getByTestIdWeb('guardian-note'))).toContain('viewing as Fenna’s guardian');
+  });
+
+  it('shows a guardian a read-only line instead of "Got it", and whether the skater has read each cue', async () => {
+    signIn('guardian', 'Gerrit Dykstra');
+    renderToday();
+    await waitFor(() => getByTestIdWeb('read-only-n-curve'));
+    expect(queryByTestIdWeb('ack-n-curve')).toBeNull();
+    expect(queryByTestIdWeb('ack-n-pacing')).toBeNull();
+    expect(textOf(getByTestIdWeb('read-only-n-curve'))).toContain('Read only');
+    // The skater's own acknowledgement still shows.
+    getByTestIdWeb('acked-n-curve2');
+    expect(textOf(getByTestIdWeb('today-summary'))).toContain('not yet read by the skater');
+  });
+
+  it('names the coach who wrote each note', async () => {
+    signIn('skater', 'Fenna Dykstra');
+    renderToday();
+    await waitFor(() => getByTestIdWeb('note-author-n-curve'));
+    expect(textOf(getByTestIdWeb('note-author-n-curve'))).toBe('from Coach Anouk');
+    // A note from before names were kept says nothing rather than something wrong.
+    expect(queryByTestIdWeb('note-author-n-pacing')).toBeNull();
   });
 });
