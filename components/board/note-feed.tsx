@@ -67,12 +67,13 @@ export function NoteFeed({ observations, skaters, cues, onSave, onDelete }: Note
   const shown = observations.length > limit ? observations.slice(0, limit) : observations;
   const more = observations.length - shown.length;
   return (
-    <View style={styles.list} testID="feed" accessibilityRole="list">
+    <View style={styles.list}>
+      <View style={styles.list} testID="feed" role="list">
       {shown.map((o) => {
         const cue = cues.get(o.cueId);
         return (
+          <View key={o.id} role="listitem">
           <FeedItem
-            key={o.id}
             observation={o}
             skater={skaters.get(o.skaterId)?.displayName ?? 'Skater no longer in the squad'}
             label={cue ? `${cue.label}${cue.archived ? ' (archived)' : ''}` : 'Cue not on this device'}
@@ -87,8 +88,10 @@ export function NoteFeed({ observations, skaters, cues, onSave, onDelete }: Note
             onSave={save}
             onCancelEdit={cancelEdit}
           />
+          </View>
         );
       })}
+      </View>
       {more > 0 ? (
         <Button
           label={`Show ${Math.min(more, FEED_PAGE)} more (${more} older)`}

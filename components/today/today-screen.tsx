@@ -132,13 +132,13 @@ export function TodayScreen() {
         </Banner>
       ) : null}
       {groups.map((group) => (
-        <View key={group.key} style={styles.group} testID={`phase-${group.key}`} accessibilityRole="list" accessibilityLabel={group.label}>
+        <View key={group.key} style={styles.group} testID={`phase-${group.key}`}>
           <Heading level={3} testID={`phase-title-${group.key}`} style={styles.phaseTitle}>
             {`${group.label} (${group.notes.length})`}
           </Heading>
-          <View style={wide ? styles.cardsWide : styles.cards}>
+          <View style={wide ? styles.cardsWide : styles.cards} role="list" aria-label={group.label}>
             {group.notes.map((note) => (
-              <View key={note.id} style={wide ? styles.cardWide : undefined}>
+              <View key={note.id} style={wide ? styles.cardWide : undefined} role="listitem">
                 <NoteCard note={note} onAcknowledge={onAcknowledge} guardian={guardian} />
               </View>
             ))}
