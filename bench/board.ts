@@ -142,7 +142,7 @@ async function main() {
   for (let i = 0; i < 12; i += 1) {
     skaters.push(await api(`/api/teams/${teamId}/skaters`, { displayName: `Bench Skater ${i + 1}` }, session.accessToken));
   }
-  const cues = await api<{ id: string }[]>(`/api/teams/${teamId}/cues`, undefined, session.accessToken);
+  const cues = await api<{ id: string; phase: string }[]>(`/api/teams/${teamId}/cues`, undefined, session.accessToken);
 
   const browser = await chromium.launch({
     executablePath: chromiumPath,
@@ -205,7 +205,8 @@ async function main() {
       await cdp.send('Profiler.enable');
       await cdp.send('Profiler.start');
     }
-    const result = await tapPass(page, cues.map((c) => c.id), pass.gapMs);
+    // The phone board opens on one phase's chips (the first one; no focus cues are pinned here).
+    const result = await tapPass(page, cues.filter((c) => c.phase === cues[0].phase).map((c) => c.id), pass.gapMs);
     if (cdp && profilePath) {
       const { profile } = await cdp.send('Profiler.stop');
       writeFileSync(profilePath, JSON.stringify(profile));

@@ -14,7 +14,7 @@ import { useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { v7 as uuidv7 } from 'uuid';
 import type { Phase } from '../shared/cues';
 import { type BoardSessionPatch, type Mark, type Observation, type ObservationPatch } from '../shared/schemas';
-import { deviceStore } from '../sync';
+import { deviceStore, localDay, sessionIdFor, type DeviceStore } from '../sync';
 import { useActiveMembership, useSession } from './session';
 import { useTeamSettings } from './team-settings';
 
@@ -60,13 +60,52 @@ export const observationsOnDevice = (sessionId: string) =>
     queryFn: async () => (await deviceStore()).listObservations(sessionId),
   });
 
-/** Today's session for the team (started on first use). */
+/** How far back a new day's session looks for the focus cues to carry over. */
+export const FOCUS_LOOKBACK_DAYS = 42;
+
+/**
+ * The focus cues of the team's most recent earlier session that pinned any (a day the board was
+ * only opened, with nothing pinned, is passed over), limited to cues still live on the device.
+ */
+export async function previousFocus(store: DeviceStore, teamId: string, day: string): Promise<string[]> {
+  const [y, m, d] = day.split('-').map(Number);
+  const live = new Set((await store.listCues(teamId)).filter((c) => !c.archived).map((c) => c.id));
+  for (let back = 1; back <= FOCUS_LOOKBACK_DAYS; back += 1) {
+    const earlier = await store.getSession(sessionIdFor(teamId, localDay(new Date(y, m - 1, d - back, 12).getTime())));
+    const pins = earlier?.focusCueIds.filter((id) => live.has(id)) ?? [];
+    if (pins.length > 0) return pins;
+  }
+  return [];
+}
+
+/**
+ * Today's session for the team (started on first use). A new day's session starts with the focus
+ * cues of the last session that had any, so the coach's plan carries to the next ice time. Only
+ * a session this device starts (none pulled for today yet) is given them: one another coach
+ * already shaped keeps its own. Carrying them over is an edit like any other (it is sent).
+ */
 export function useTodaySession(teamId: string) {
   const userId = useSession((s) => s.user?.id ?? '');
   return useQuery({
     ...local,
     queryKey: boardKeys.session(teamId),
-    queryFn: async () => (await deviceStore()).startSession(teamId, userId),
+    queryFn: async () => {
+      const store = await deviceStore();
+      const day = localDay(Date.now());
+      const known = await store.getSession(sessionIdFor(teamId, day));
+      const today = await store.startSession(teamId, userId);
+      // Carried only into a session this device has just started. The store's day follows its
+      // corrected clock; when that is another day than this one, nothing is carried.
+      const started = !known && today.day === day;
+      if (!started || today.focusCueIds.length > 0) return today;
+      try {
+        const carried = await previousFocus(store, teamId, today.day);
+        return carried.length > 0 ? await store.updateSession(today.id, userId, { focusCueIds: carried }) : today;
+      } catch {
+        // Carrying the plan over is a convenience: the board opens without it rather than not at all.
+        return today;
+      }
+    },
     enabled: !!teamId && !!userId,
   });
 }

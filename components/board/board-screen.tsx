@@ -3,9 +3,12 @@
  * work", end zone "good"): each tap is a note saved on this device at once, confirmed in the undo
  * bar at the bottom, and listed in today's feed. Works the same with no network.
  *
- * Phone (390 px): one column, tiles then chips then feed, the undo bar docked at the bottom where
- * the thumb is. Wide (>= 1024 px): three panes side by side (tiles | chips | session and feed),
- * each scrolling on its own, the undo bar across the bottom.
+ * Phone (390 px): the first screen is the whole board and never scrolls: a compact grid of tiles
+ * (16 skaters in four rows), a fixed slot for the pick or the undo bar (it covers nothing, and
+ * nothing moves when it changes), then the cue switcher (focus cues, each phase) over one set of
+ * chips. Today's notes, the session and the safety line follow below the board, for review.
+ * Wide (>= 1024 px): three panes side by side (tiles | chips | session and feed), each scrolling
+ * on its own, the undo bar across the bottom.
  *
  * A tap must cost one frame. So this screen does not subscribe to the notes, the pick, the
  * recorder's undo stack or the waiting count: the parts that show them (feed, tiles, undo bar,
@@ -15,7 +18,7 @@
  */
 import { useQuery } from '@tanstack/react-query';
 import { memo, useCallback, useMemo, useRef, useState, type ReactNode } from 'react';
-import { ScrollView, StyleSheet, View, useWindowDimensions } from 'react-native';
+import { ScrollView, StyleSheet, View, useWindowDimensions, type LayoutChangeEvent } from 'react-native';
 
 import { useStore } from 'zustand';
 
@@ -33,20 +36,25 @@ import { useBoardUi } from '../../store/board-ui';
 import { useConnectivity } from '../../store/connectivity';
 import { useSyncStatus } from '../../store/sync-status';
 import { useActiveMembership, useSession } from '../../store/session';
-import { Banner, Button, Heading, Loading, Text, TextLink, colors, layout, spacing, useBreakpoint } from '../ui';
+import { Banner, Button, Heading, Loading, Text, TextLink, colors, layout, radius, spacing, useBreakpoint } from '../ui';
 import { BoardCaution } from './board-caution';
 import { CueLibrary } from './cue-library';
 import { CuePad } from './cue-pad';
 import { joinNames } from './format';
 import { NoteFeed } from './note-feed';
+import { PhasePad } from './phase-pad';
 import { SessionPanel } from './session-panel';
-import { SkaterTiles } from './skater-tiles';
+import { SkaterTiles, groupFilters } from './skater-tiles';
 import { BoardStatusLine } from './status-line';
 import { UndoBar } from './undo-bar';
 import { useLatestCallback } from './use-latest';
 import { latestOf, useRecorder, type Recording, type RecorderStore } from './use-recorder';
 
 const THREE_PANES_FROM = 1280;
+/** The phone's tile area shows at most four rows (16 skaters); a larger squad scrolls inside it. */
+const PHONE_TILES_MAX_HEIGHT = 4 * 60;
+/** The app's top bar and tab bar on a phone: the board's first guess before it is measured. */
+const PHONE_CHROME = 56 + 66;
 const EMPTY_OBS: Observation[] = [];
 const EMPTY_CUES: Cue[] = [];
 const EMPTY_GROUPS: Group[] = [];
@@ -54,7 +62,14 @@ const EMPTY_GROUPS: Group[] = [];
 export function BoardScreen() {
   const wide = useBreakpoint() === 'wide';
   // Three panes need room for readable chips; a 1024-1279 px window gets two (tiles and notes | cues).
-  const threePanes = useWindowDimensions().width >= THREE_PANES_FROM;
+  const window = useWindowDimensions();
+  const threePanes = window.width >= THREE_PANES_FROM;
+  // The phone board takes exactly the height the shell leaves it, measured on the root.
+  const [boardHeight, setBoardHeight] = useState(() => Math.max(window.height - PHONE_CHROME, 480));
+  const onRootLayout = useCallback((event: LayoutChangeEvent) => {
+    const h = Math.floor(event.nativeEvent.layout.height);
+    if (h > 0) setBoardHeight(h);
+  }, []);
   const membership = useActiveMembership();
   const teamId = membership?.teamId ?? '';
   const isHead = membership?.role === 'head_coach';
@@ -141,7 +156,7 @@ export function BoardScreen() {
 
   // ---- the three parts ----------------------------------------------------------------------
   const fetching = syncing && !offline;
-  const tiles =
+  const noSkaters =
     skaters.length === 0 ? (
       <View style={styles.empty} testID="board-no-skaters">
         <Text weight="bold">{fetching ? 'Fetching your squad…' : 'No skaters on this device yet'}</Text>
@@ -152,13 +167,23 @@ export function BoardScreen() {
         </Text>
         <TextLink href="/squad" label="Go to Squad" testID="board-go-squad" />
       </View>
-    ) : (
-      <BoardTiles skaters={skaters} groups={groups} skaterById={skaterById} sessionId={today.id} />
-    );
+    ) : null;
+  const tiles = noSkaters ?? <BoardTiles skaters={skaters} groups={groups} skaterById={skaterById} sessionId={today.id} compact={!wide} />;
 
   const libraryButton = isHead ? (
     <Button label="Edit cue library" variant="quiet" onPress={openLibrary} testID="cue-library-open" />
   ) : null;
+  const noCues =
+    liveCueCount === 0 ? (
+      <View style={styles.empty} testID="board-no-cues">
+        <Text weight="bold">No cues yet</Text>
+        <Text tone="muted">
+          {isHead
+            ? 'Add your first cues in the cue library.'
+            : 'The head coach adds cues to the library; they reach this device with the next connection.'}
+        </Text>
+      </View>
+    ) : null;
   const chips = (
     <View style={styles.section}>
       <View style={styles.sectionHead}>
@@ -168,18 +193,7 @@ export function BoardScreen() {
         {libraryButton}
       </View>
       <CuesHint skaterById={skaterById} />
-      {liveCueCount === 0 ? (
-        <View style={styles.empty} testID="board-no-cues">
-          <Text weight="bold">No cues yet</Text>
-          <Text tone="muted">
-            {isHead
-              ? 'Add your first cues in the cue library.'
-              : 'The head coach adds cues to the library; they reach this device with the next connection.'}
-          </Text>
-        </View>
-      ) : (
-        <CuePad cues={cues} focusIds={today.focusCueIds} onTap={onCueTap} />
-      )}
+      {noCues ?? <CuePad cues={cues} focusIds={today.focusCueIds} onTap={onCueTap} />}
     </View>
   );
 
@@ -215,7 +229,7 @@ export function BoardScreen() {
       skaterById={skaterById}
       namesOf={namesOf}
       wide={wide}
-      showPick={!wide && !libraryOpen}
+      compact={!wide}
       onUndo={recorder.undo}
       onEditing={recorder.setHold}
       onSaveNote={saveLatestNote}
@@ -255,26 +269,69 @@ export function BoardScreen() {
     );
   }
 
+  if (libraryOpen) {
+    return (
+      <View style={styles.root} testID="coach-home">
+        <ScrollView style={styles.fill} contentContainerStyle={styles.phoneContent} keyboardShouldPersistTaps="handled">
+          {status}
+          {library}
+        </ScrollView>
+      </View>
+    );
+  }
+
   return (
-    <View style={styles.root} testID="coach-home">
-      <ScrollView style={styles.fill} contentContainerStyle={styles.phoneContent} keyboardShouldPersistTaps="handled">
-        {status}
-        {libraryOpen ? (
-          library
-        ) : (
-          <>
-            {tiles}
-            {chips}
-            {feedPart}
-            {sessionPanel}
-            <BoardCaution />
-          </>
-        )}
+    <View style={styles.root} testID="coach-home" onLayout={onRootLayout}>
+      <ScrollView style={styles.fill} keyboardShouldPersistTaps="handled" testID="board-scroll">
+        <View style={[styles.phoneBoard, { height: boardHeight }]} testID="board-phone">
+          <View style={styles.phoneTop}>
+            <View style={styles.grow}>
+              <BoardStatusLine day={today.day} offline={offline} compact />
+            </View>
+            {groups.length > 0 && skaters.length > 0 ? <GroupSwitch skaters={skaters} groups={groups} /> : null}
+          </View>
+          {noSkaters ?? (
+            <ScrollView style={styles.phoneTiles} contentContainerStyle={styles.phoneTilesContent}>
+              {tiles}
+            </ScrollView>
+          )}
+          <View style={styles.slot} testID="board-slot">
+            {bottom}
+          </View>
+          {noCues ?? <PhasePad cues={cues} focusIds={today.focusCueIds} onTap={onCueTap} />}
+        </View>
+        <View style={styles.phoneBelow}>
+          {libraryButton ? <View style={styles.phoneLibrary}>{libraryButton}</View> : null}
+          {feedPart}
+          {sessionPanel}
+          <BoardCaution />
+        </View>
       </ScrollView>
-      {bottom}
     </View>
   );
 }
+
+/**
+ * The phone's group filter: one button that steps through Everyone, each group and "No group",
+ * so the filter costs no row of its own above the tiles.
+ */
+const GroupSwitch = memo(function GroupSwitch({ skaters, groups }: { skaters: Skater[]; groups: Group[] }) {
+  const group = useBoardUi((s) => s.group);
+  const setGroup = useBoardUi((s) => s.setGroup);
+  const filters = useMemo(() => groupFilters(skaters, groups), [skaters, groups]);
+  const index = Math.max(0, filters.findIndex((f) => f.value === group));
+  const next = filters[(index + 1) % filters.length];
+  return (
+    <Button
+      label={`${filters[index].label} \u25B8`}
+      variant="secondary"
+      style={styles.groupSwitch}
+      onPress={() => setGroup(next.value)}
+      testID="group-switch"
+      accessibilityLabel={`Showing ${filters[index].label}. Show ${next.label}`}
+    />
+  );
+});
 
 /** The pick (only skaters still in the squad), in the order the skaters were picked. */
 function usePicked(skaterById: ReadonlyMap<string, Skater>): string[] {
@@ -288,11 +345,13 @@ const BoardTiles = memo(function BoardTiles({
   groups,
   skaterById,
   sessionId,
+  compact,
 }: {
   skaters: Skater[];
   groups: Group[];
   skaterById: ReadonlyMap<string, Skater>;
   sessionId: string;
+  compact: boolean;
 }) {
   const selected = usePicked(skaterById);
   const group = useBoardUi((s) => s.group);
@@ -309,6 +368,7 @@ const BoardTiles = memo(function BoardTiles({
       onToggle={toggleSkater}
       onClear={clearSelection}
       onGroup={setGroup}
+      compact={compact}
     />
   );
 });
@@ -365,7 +425,7 @@ const BottomBar = memo(function BottomBar({
   skaterById,
   namesOf,
   wide,
-  showPick,
+  compact,
   onUndo,
   onEditing,
   onSaveNote,
@@ -377,8 +437,8 @@ const BottomBar = memo(function BottomBar({
   skaterById: ReadonlyMap<string, Skater>;
   namesOf: (ids: readonly string[]) => string;
   wide: boolean;
-  /** Phone, board showing (not the cue library): the pick bar may take the undo bar's place. */
-  showPick: boolean;
+  /** The phone's slot: with nothing to confirm, it shows who the next tap goes to. */
+  compact: boolean;
   onUndo: () => void;
   onEditing: (editing: boolean) => void;
   onSaveNote: (latest: Recording, note: string) => void;
@@ -391,14 +451,24 @@ const BottomBar = memo(function BottomBar({
   const noteOf = useCallback((list: Observation[]) => (latestId ? (list.find((o) => o.id === latestId)?.note ?? '') : ''), [latestId]);
   const currentNote = useQuery({ ...observationsOnDevice(sessionId), enabled: !!sessionId && !!latestId, select: noteOf }).data ?? '';
 
-  // Scrolled down among the chips, the coach still sees who the next tap goes to.
-  if (showPick && !latest && !notice && selected.length > 0) {
+  // The phone's slot between the tiles and the cues: who the next tap goes to.
+  if (compact && !latest && !notice) {
     return (
       <View style={styles.pickBar} testID="pick-bar">
-        <Text weight="bold" numberOfLines={2} style={styles.grow}>
-          {`For: ${namesOf(selected)}`}
+        <Text
+          weight="bold"
+          numberOfLines={2}
+          tone={selected.length ? 'default' : 'muted'}
+          style={styles.grow}
+          testID="selection-summary"
+        >
+          {selected.length === 0
+            ? 'Tap skaters, then a cue'
+            : `For ${selected.length > 1 ? `all ${selected.length}: ` : ''}${namesOf(selected)}`}
         </Text>
-        <Button label="Clear" variant="secondary" onPress={onClearPick} testID="pick-bar-clear" accessibilityLabel="Clear the picked skaters" />
+        {selected.length > 0 ? (
+          <Button label="Clear" variant="secondary" onPress={onClearPick} testID="pick-bar-clear" accessibilityLabel="Clear the picked skaters" />
+        ) : null}
       </View>
     );
   }
@@ -413,6 +483,7 @@ const BottomBar = memo(function BottomBar({
               mark: latest.mark,
               repeat: latest.repeat,
               count: latest.ids.length,
+              undone: latest.undone,
             }
           : null
       }
@@ -421,6 +492,7 @@ const BottomBar = memo(function BottomBar({
       onUndo={onUndo}
       onEditing={onEditing}
       wide={wide}
+      compact={compact}
       onSaveNote={(note) => {
         if (latest) onSaveNote(latest, note);
       }}
@@ -443,6 +515,14 @@ const styles = StyleSheet.create({
   fill: { flex: 1 },
   grow: { flex: 1 },
   phoneContent: { padding: spacing.md, gap: spacing.lg, paddingBottom: spacing.xl },
+  phoneBoard: { paddingHorizontal: spacing.xs, paddingTop: spacing.xxs, paddingBottom: spacing.xxs, gap: 6 },
+  phoneTop: { flexDirection: 'row', alignItems: 'center', gap: spacing.xs, minHeight: 28, paddingHorizontal: spacing.xxs },
+  phoneLibrary: { alignItems: 'flex-start' },
+  phoneTiles: { flexGrow: 0, flexShrink: 0, maxHeight: PHONE_TILES_MAX_HEIGHT },
+  phoneTilesContent: { paddingHorizontal: 3 },
+  slot: { height: 60, flexDirection: 'row', alignItems: 'stretch' },
+  groupSwitch: { paddingHorizontal: spacing.sm },
+  phoneBelow: { padding: spacing.md, gap: spacing.lg, paddingBottom: spacing.xl, borderTopWidth: 1, borderTopColor: colors.divider },
   section: { gap: spacing.sm },
   sectionHead: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm },
   empty: { gap: spacing.xs, padding: spacing.md, borderRadius: 12, borderWidth: 1, borderColor: colors.divider, backgroundColor: colors.surface },
@@ -455,14 +535,16 @@ const styles = StyleSheet.create({
   cuePane: { flex: 1, minWidth: 280 },
   feedPane: { flex: 1, minWidth: 260, maxWidth: 460, backgroundColor: colors.background },
   pickBar: {
+    flex: 1,
     flexDirection: 'row',
     alignItems: 'center',
     gap: spacing.sm,
-    paddingVertical: spacing.xs,
-    paddingHorizontal: spacing.md,
+    paddingVertical: spacing.xxs,
+    paddingHorizontal: spacing.sm,
     backgroundColor: colors.surfaceSunken,
-    borderTopWidth: 1,
-    borderTopColor: colors.divider,
+    borderRadius: radius.md,
+    borderWidth: 1,
+    borderColor: colors.divider,
   },
   wideBar: { paddingHorizontal: spacing.lg, paddingVertical: spacing.sm, maxWidth: layout.contentMaxWidth + 400, width: '100%' },
 });

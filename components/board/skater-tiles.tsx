@@ -29,6 +29,11 @@ export type SkaterTilesProps = {
   onToggle: (id: string) => void;
   onClear: () => void;
   onGroup: (group: GroupFilter) => void;
+  /**
+   * The phone board: small tiles, four across (three for up to nine skaters), so a squad of 16
+   * takes four rows; no filter pills or pick line (the phone shows those in its own rows).
+   */
+  compact?: boolean;
 };
 
 type Counts = ReadonlyMap<string, number>;
@@ -63,18 +68,50 @@ function useNoteCount(sessionId: string, skaterId: string): number {
   return useQuery({ ...observationsOnDevice(sessionId), enabled: !!sessionId, select }).data ?? 0;
 }
 
-export function SkaterTiles({ skaters, groups, selected, sessionId, group, onToggle, onClear, onGroup }: SkaterTilesProps) {
-  const groupName = useMemo(() => new Map(groups.map((g) => [g.id, g.name])), [groups]);
-  const ungrouped = skaters.some((s) => !s.groupId || !groupName.has(s.groupId));
-  const shown = skaters.filter((s) =>
-    group === 'all' ? true : group === 'none' ? !s.groupId || !groupName.has(s.groupId) : s.groupId === group,
-  );
-  const filters = [
+/** The group filter's choices: everyone, each group in order, and "No group" when it has skaters. */
+export function groupFilters(skaters: Skater[], groups: Group[]): { value: GroupFilter; label: string }[] {
+  const known = new Set(groups.map((g) => g.id));
+  const ungrouped = skaters.some((s) => !s.groupId || !known.has(s.groupId));
+  return [
     { value: 'all', label: 'Everyone' },
     ...[...groups].sort((a, b) => a.sortOrder - b.sortOrder || a.name.localeCompare(b.name)).map((g) => ({ value: g.id, label: g.name })),
     ...(ungrouped && groups.length > 0 ? [{ value: 'none', label: 'No group' }] : []),
   ];
+}
+
+export function SkaterTiles({ skaters, groups, selected, sessionId, group, onToggle, onClear, onGroup, compact = false }: SkaterTilesProps) {
+  const groupName = useMemo(() => new Map(groups.map((g) => [g.id, g.name])), [groups]);
+  const shown = skaters.filter((s) =>
+    group === 'all' ? true : group === 'none' ? !s.groupId || !groupName.has(s.groupId) : s.groupId === group,
+  );
+  const filters = groupFilters(skaters, groups);
   const pickedNames = skaters.filter((s) => selected.includes(s.id)).map((s) => s.displayName);
+
+  if (compact) {
+    const columns = shown.length <= 9 ? 3 : 4;
+    const cell = { width: `${100 / columns}%` } as const;
+    return (
+      <View style={styles.compactGrid} testID="skater-tiles">
+        {shown.map((skater) => (
+          <View key={skater.id} style={[styles.compactCell, cell]}>
+            <SkaterTile
+              skater={skater}
+              on={selected.includes(skater.id)}
+              groupLabel={skater.groupId ? (groupName.get(skater.groupId) ?? 'No group') : 'No group'}
+              sessionId={sessionId}
+              onToggle={onToggle}
+              compact
+            />
+          </View>
+        ))}
+        {shown.length === 0 ? (
+          <Text tone="muted" testID="tiles-filter-empty">
+            No skaters in this group.
+          </Text>
+        ) : null}
+      </View>
+    );
+  }
 
   return (
     <View style={styles.wrap}>
@@ -89,6 +126,7 @@ export function SkaterTiles({ skaters, groups, selected, sessionId, group, onTog
                 accessibilityRole="radio"
                 accessibilityLabel={f.label}
                 accessibilityState={{ selected: on, checked: on }}
+                aria-checked={on}
                 onPress={() => onGroup(f.value)}
                 style={[styles.filter, on && styles.filterOn]}
               >
@@ -132,17 +170,43 @@ export function SkaterTiles({ skaters, groups, selected, sessionId, group, onTog
   );
 }
 
-type SkaterTileProps = { skater: Skater; on: boolean; groupLabel: string; sessionId: string; onToggle: (id: string) => void };
+type SkaterTileProps = {
+  skater: Skater;
+  on: boolean;
+  groupLabel: string;
+  sessionId: string;
+  onToggle: (id: string) => void;
+  compact?: boolean;
+};
 
-const SkaterTile = memo(function SkaterTile({ skater, on, groupLabel, sessionId, onToggle }: SkaterTileProps) {
+const SkaterTile = memo(function SkaterTile({ skater, on, groupLabel, sessionId, onToggle, compact = false }: SkaterTileProps) {
   const count = useNoteCount(sessionId, skater.id);
   const counted = plural(count, 'note', 'notes');
+  if (compact) {
+    return (
+      <Pressable
+        testID={`skater-tile-${skater.id}`}
+        accessibilityRole="button"
+        accessibilityState={{ selected: on }}
+        aria-pressed={on}
+        onPress={() => onToggle(skater.id)}
+        style={({ pressed }) => [styles.compactTile, on && styles.compactTileOn, pressed && styles.tilePressed]}
+      >
+        <Text weight="bold" tone={on ? 'inverse' : 'default'} numberOfLines={2} style={styles.compactName}>
+          {skater.displayName}
+        </Text>
+        {/* "Picked" shows by a tick and the dark fill; the count stays readable either way. */}
+        <Text weight="bold" tone={on ? 'inverse' : 'muted'} numberOfLines={1} testID={`tile-count-${skater.id}`} style={styles.compactCount}>
+          {on ? '\u2713 ' : ''}
+          {counted}
+        </Text>
+      </Pressable>
+    );
+  }
   return (
     <Pressable
       testID={`skater-tile-${skater.id}`}
       accessibilityRole="button"
-      accessibilityLabel={skater.displayName}
-      accessibilityHint={`${groupLabel}, ${counted} today`}
       accessibilityState={{ selected: on }}
       aria-pressed={on}
       onPress={() => onToggle(skater.id)}
@@ -197,6 +261,21 @@ const styles = StyleSheet.create({
   },
   tileOn: { backgroundColor: colors.primary, borderColor: colors.ink, borderWidth: 4, padding: spacing.sm - 2 },
   tilePressed: { opacity: 0.85 },
+  compactGrid: { flexDirection: 'row', flexWrap: 'wrap', marginHorizontal: -3 },
+  compactCell: { padding: 3 },
+  compactTile: {
+    minHeight: 52,
+    paddingHorizontal: 6,
+    paddingVertical: 3,
+    borderRadius: radius.md,
+    borderWidth: 2,
+    borderColor: colors.border,
+    backgroundColor: colors.surface,
+    justifyContent: 'space-between',
+  },
+  compactTileOn: { backgroundColor: colors.primary, borderColor: colors.ink, borderWidth: 3, paddingHorizontal: 5, paddingVertical: 2 },
+  compactName: { fontSize: 15, lineHeight: 16 },
+  compactCount: { fontSize: 13, lineHeight: 15 },
   tileFoot: { flexDirection: 'row', alignItems: 'center', gap: spacing.xs, marginTop: 'auto' },
   grow: { flex: 1 },
   tick: { width: 26, height: 26, borderRadius: 13, borderWidth: 2, borderColor: colors.border, alignItems: 'center', justifyContent: 'center' },

@@ -1,8 +1,12 @@
 /**
- * The undo bar, docked at the bottom of the board where the thumb already is: it says what was
- * just noted (cue, skaters, mark by shape and word), offers Undo, and "Add note" opens a short
- * text box for the note(s) just made. It also carries the board's prompts ("Pick a skater
- * first") and errors, so every tap gets a visible answer in the same place.
+ * The undo bar: it says what was just noted (cue, skaters, mark by shape and word), offers Undo,
+ * and "Add note" opens a short text box for the note(s) just made. It also carries the board's
+ * prompts ("Pick a skater first") and errors, so every tap gets a visible answer in the same place.
+ * Wide screens dock it under the panes; the phone gives it a fixed slot between the tiles and the
+ * cues (`compact`), so it covers nothing and nothing moves when it comes and goes.
+ *
+ * After Undo the bar keeps its place and says "Undone" with the button switched off: a gloved
+ * second tap lands on that, never on an older note.
  */
 import { useEffect, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
@@ -14,7 +18,7 @@ import { NoteField, noteTooLong } from './note-field';
 import type { Notice } from './use-recorder';
 
 export type UndoBarProps = {
-  latest: { key: string; cueLabel: string; names: string; mark: Mark; repeat: number; count: number } | null;
+  latest: { key: string; cueLabel: string; names: string; mark: Mark; repeat: number; count: number; undone?: boolean } | null;
   notice: Notice | null;
   currentNote: string;
   onUndo: () => void;
@@ -22,9 +26,11 @@ export type UndoBarProps = {
   onEditing: (editing: boolean) => void;
   /** Wide screens: Add note sits beside Undo on one line. */
   wide?: boolean;
+  /** The phone's slot: one row, Note and Undo beside the words, no border of its own. */
+  compact?: boolean;
 };
 
-export function UndoBar({ latest, notice, currentNote, onUndo, onSaveNote, onEditing, wide = false }: UndoBarProps) {
+export function UndoBar({ latest, notice, currentNote, onUndo, onSaveNote, onEditing, wide = false, compact = false }: UndoBarProps) {
   const [editing, setEditing] = useState(false);
   const [draft, setDraft] = useState('');
   const latestKey = latest?.key ?? null;
@@ -37,63 +43,101 @@ export function UndoBar({ latest, notice, currentNote, onUndo, onSaveNote, onEdi
 
   if (!latest && !notice) return null;
 
-  const noticeLine = notice ? (
+  // After an undo the bar itself says "Undone"; the notice would only repeat it.
+  const shownNotice = latest?.undone && notice?.kind === 'undone' ? null : notice;
+  const noticeLine = shownNotice ? (
     <Text
-      testID={`board-notice-${notice.kind}`}
-      accessibilityRole={notice.kind === 'error' || notice.kind === 'prompt' ? 'alert' : undefined}
+      testID={`board-notice-${shownNotice.kind}`}
+      accessibilityRole={shownNotice.kind === 'error' || shownNotice.kind === 'prompt' ? 'alert' : undefined}
       aria-live="assertive"
       weight="bold"
-      tone={notice.kind === 'error' ? 'error' : 'default'}
-      style={notice.kind === 'prompt' ? styles.prompt : undefined}
+      numberOfLines={compact ? 2 : undefined}
+      tone={shownNotice.kind === 'error' ? 'error' : 'default'}
+      style={shownNotice.kind === 'prompt' ? styles.prompt : undefined}
     >
-      {notice.kind === 'error' || notice.kind === 'prompt' ? '\u26A0 ' : ''}
-      {notice.text}
+      {shownNotice.kind === 'error' || shownNotice.kind === 'prompt' ? '\u26A0 ' : ''}
+      {shownNotice.text}
     </Text>
   ) : null;
 
   if (!latest) {
     return (
-      <View style={[styles.bar, notice?.kind === 'prompt' && styles.barPrompt]} testID="board-notice">
+      <View style={[styles.bar, compact && styles.barCompact, notice?.kind === 'prompt' && styles.barPrompt]} testID="board-notice">
         {noticeLine}
       </View>
     );
   }
 
+  const undone = !!latest.undone;
   const addNote = (
     <Button
-      label={currentNote ? 'Edit note' : 'Add note'}
-      variant={wide ? 'secondary' : 'quiet'}
-      style={wide ? undefined : styles.addNote}
+      label={currentNote ? 'Edit note' : compact ? 'Note' : 'Add note'}
+      variant={wide || compact ? 'secondary' : 'quiet'}
+      style={wide || compact ? styles.sideButton : styles.addNote}
       onPress={() => {
         setDraft(currentNote);
         setEditing(true);
       }}
       testID="note-add"
+      accessibilityLabel={currentNote ? 'Edit the note' : 'Add a note'}
     />
   );
   const kind = markKind(latest.mark);
   const mark = marks[kind];
-  const heading = latest.repeat > 1 ? `Noted again \u00D7${latest.repeat}` : 'Noted';
+  const heading = undone ? 'Undone' : latest.repeat > 1 ? `Noted again \u00D7${latest.repeat}` : 'Noted';
+  const beside = wide || compact;
   return (
-    <View style={styles.bar} testID="undo-bar" accessibilityRole="summary" aria-live="polite">
+    <View
+      style={[styles.bar, compact && styles.barCompact, undone && styles.barUndone]}
+      testID="undo-bar"
+      aria-live="polite"
+    >
       {noticeLine}
       <View style={styles.row}>
-        <View style={[styles.markBox, { backgroundColor: mark.surface, borderColor: mark.strong }]}>
-          <MarkShape kind={kind} size={22} />
+        <View style={[styles.markBox, compact && styles.markBoxCompact, undone ? styles.markBoxUndone : { backgroundColor: mark.surface, borderColor: mark.strong }]}>
+          {undone ? (
+            <Text weight="bold" align="center">
+              {'\u21B6'}
+            </Text>
+          ) : (
+            <MarkShape kind={kind} size={22} />
+          )}
         </View>
         <View style={styles.words}>
-          <Text variant="caption" weight="bold" testID="undo-bar-title" style={{ color: mark.ink }}>
-            {heading} · {mark.word}
+          <Text
+            variant="caption"
+            weight="bold"
+            numberOfLines={1}
+            testID="undo-bar-title"
+            style={[compact && styles.tight, undone ? undefined : { color: mark.ink }]}
+          >
+            {undone ? `${heading} \u00B7 nothing kept` : `${heading} \u00B7 ${mark.word}`}
           </Text>
-          <Text weight="bold" numberOfLines={wide ? 2 : 3} testID="undo-bar-text">
+          <Text
+            weight="bold"
+            variant={compact ? 'caption' : 'body'}
+            numberOfLines={compact ? 2 : wide ? 2 : 3}
+            testID="undo-bar-text"
+            style={[compact && styles.tight, undone && styles.struck]}
+          >
             {latest.cueLabel}
-            <Text tone="muted">{` \u2014 ${latest.names}`}</Text>
+            <Text tone="muted" variant={compact ? 'caption' : 'body'} style={compact ? styles.tight : undefined}>{` \u2014 ${latest.names}`}</Text>
           </Text>
         </View>
-        {wide && !editing ? addNote : null}
-        <Button label="Undo" variant="secondary" onPress={onUndo} testID="undo-button" accessibilityLabel={`Undo: ${latest.cueLabel} for ${latest.names}`} />
+        {beside && !editing && !undone ? addNote : null}
+        {undone ? (
+          <Button
+            label="Undone"
+            variant="secondary"
+            disabled
+            testID="undo-button"
+            accessibilityLabel={`Already undone: ${latest.cueLabel} for ${latest.names}`}
+          />
+        ) : (
+          <Button label="Undo" variant="secondary" onPress={onUndo} testID="undo-button" accessibilityLabel={`Undo: ${latest.cueLabel} for ${latest.names}`} />
+        )}
       </View>
-      {editing ? (
+      {editing && !undone ? (
         <View style={styles.noteBox}>
           <NoteField
             value={draft}
@@ -115,7 +159,7 @@ export function UndoBar({ latest, notice, currentNote, onUndo, onSaveNote, onEdi
             <Button label="Cancel" variant="quiet" onPress={() => setEditing(false)} testID="note-cancel" />
           </View>
         </View>
-      ) : wide ? null : (
+      ) : beside || undone ? null : (
         addNote
       )}
     </View>
@@ -132,10 +176,17 @@ const styles = StyleSheet.create({
     borderTopColor: colors.primary,
     borderRadius: radius.sm,
   },
-  barPrompt: { borderTopColor: colors.error, backgroundColor: colors.errorSurface },
+  barCompact: { borderTopWidth: 0, borderWidth: 2, borderColor: colors.primary, borderRadius: radius.md, paddingVertical: 2, paddingHorizontal: spacing.xs, flex: 1, justifyContent: 'center' },
+  markBoxCompact: { width: 32, height: 32 },
+  tight: { fontSize: 15, lineHeight: 18 },
+  barUndone: { borderColor: colors.border, borderTopColor: colors.border, backgroundColor: colors.surfaceSunken },
+  barPrompt: { borderTopColor: colors.error, borderColor: colors.error, backgroundColor: colors.errorSurface },
   prompt: { color: colors.error },
   row: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm },
   markBox: { width: 40, height: 40, borderRadius: radius.md, borderWidth: 2, alignItems: 'center', justifyContent: 'center' },
+  markBoxUndone: { borderColor: colors.border, backgroundColor: colors.surface },
+  struck: { textDecorationLine: 'line-through' },
+  sideButton: { paddingHorizontal: spacing.sm },
   words: { flex: 1 },
   addNote: { alignSelf: 'flex-start' },
   noteBox: { gap: spacing.xs },

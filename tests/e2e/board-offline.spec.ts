@@ -5,6 +5,7 @@
  */
 import { expect, test, type Page } from '@playwright/test';
 import { apiCoachWithSkaters, DESKTOP, PHONE, shootBoth, signInThroughForm, watchErrors, ownServer } from './support';
+import { tapCue } from './board-phone-taps';
 
 const server = ownServer(8433);
 const BASE = server.base;
@@ -28,10 +29,14 @@ test('a whole session recorded with the server down survives a reload: 24 notes,
 
   await stopServer();
 
-  const chip = (index: number) => page.getByTestId(`cue-chip-${cues[index].id}`);
-  const tapFor = async (skaterIndex: number, cueIndex: number) => {
+  const tapFor = async (skaterIndex: number, cueIndex: number, undo = false) => {
     await tile(page, skaters[skaterIndex].id).click();
-    await chip(cueIndex).click();
+    await tapCue(page, cues[cueIndex]);
+    if (undo) {
+      // Undo names this tap until the pick changes.
+      await expect(page.getByTestId('undo-bar')).toContainText(cues[cueIndex].label);
+      await page.getByTestId('undo-button').click();
+    }
     await tile(page, skaters[skaterIndex].id).click();
   };
 
@@ -39,16 +44,14 @@ test('a whole session recorded with the server down survives a reload: 24 notes,
   for (let i = 0; i < 20; i += 1) await tapFor(i % 5, i % 7);
   // One "good": the second zone of a chip.
   await tile(page, skaters[0].id).click();
-  await page.getByTestId(`cue-good-${cues[3].id}`).click();
+  await tapCue(page, cues[3], 'good');
   await tile(page, skaters[0].id).click();
   // One group cue for three skaters at once.
   for (const i of [1, 2, 3]) await tile(page, skaters[i].id).click();
-  await chip(10).click();
+  await tapCue(page, cues[10]);
   for (const i of [1, 2, 3]) await tile(page, skaters[i].id).click();
   // One more, undone at once.
-  await tapFor(4, 12);
-  await expect(page.getByTestId('undo-bar')).toContainText(cues[12].label);
-  await page.getByTestId('undo-button').click();
+  await tapFor(4, 12, true);
 
   const items = page.locator('[data-testid^="feed-item-"]');
   await expect(items).toHaveCount(24);
@@ -62,14 +65,15 @@ test('a whole session recorded with the server down survives a reload: 24 notes,
   await expect(page.getByTestId('cue-library-straight')).toContainText('Quiet arms on the straight');
   await shootBoth(page, 'cue-library');
   await page.getByTestId('cue-library-close').click();
+  await page.getByTestId('phase-tab-straight').click();
   await expect(page.getByTestId('cue-section-straight')).toContainText('Quiet arms on the straight');
 
   await page.reload();
   await expect(page.getByTestId('coach-home')).toBeVisible();
   await expect(page.getByTestId('status-offline')).toBeVisible();
   await expect(items).toHaveCount(24);
-  await expect(page.getByTestId('status-pending')).toContainText('24 notes');
-  await expect(page.getByTestId('status-pending')).toContainText('1 cue change');
+  await expect(page.getByTestId('status-pending')).toHaveAttribute('aria-label', /24 notes.*1 cue change/);
+  await page.getByTestId('phase-tab-straight').click();
   await expect(page.getByTestId('cue-section-straight')).toContainText('Quiet arms on the straight');
 
   // Right skaters: 4 each, plus the good note for skater 0 and the group cue for 1-3.

@@ -5,6 +5,7 @@
  */
 import { expect, test } from '@playwright/test';
 import { apiCoachWithSkaters, PHONE, shootBoth, signInThroughForm, watchErrors } from './support';
+import { tapCue } from './board-phone-taps';
 
 test('a second tab offers to take over and loses nothing recorded in the first', async ({ browser, baseURL }) => {
   const { coach, skaters, cues } = await apiCoachWithSkaters(baseURL!, ['Geeske Kuperus', 'Hylke de Boer']);
@@ -15,7 +16,7 @@ test('a second tab offers to take over and loses nothing recorded in the first',
 
   for (const [i, s] of skaters.entries()) {
     await first.getByTestId(`skater-tile-${s.id}`).click();
-    await first.getByTestId(`cue-chip-${cues[i].id}`).click();
+    await tapCue(first, cues[i]);
     await first.getByTestId(`skater-tile-${s.id}`).click();
   }
   await expect(first.locator('[data-testid^="feed-item-"]')).toHaveCount(2);

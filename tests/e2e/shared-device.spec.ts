@@ -14,6 +14,7 @@ import { expect, test, type Page } from '@playwright/test';
 import path from 'node:path';
 import { mkdirSync } from 'node:fs';
 import { apiCoachWithSkaters, linkFromMail, ownServer, PHONE, SHOTS, signInThroughForm, uniqueEmail, watchErrors } from './support';
+import { tapCue } from './board-phone-taps';
 
 const server = ownServer(8445);
 const BASE = server.base;
@@ -89,7 +90,7 @@ test('a coach and a skater on one phone: nothing leaks, nothing is lost, nothing
   await expect(page.getByTestId(`skater-tile-${wietske.id}`)).toBeVisible();
   const record = async (skaterId: string, cueIndex: number) => {
     await page.getByTestId(`skater-tile-${skaterId}`).click();
-    await page.getByTestId(`cue-chip-${cues[cueIndex].id}`).click();
+    await tapCue(page, cues[cueIndex]);
     await page.getByTestId(`skater-tile-${skaterId}`).click();
   };
   await record(wietske.id, 0);

@@ -6,6 +6,7 @@
  */
 import { expect, test, type Page } from '@playwright/test';
 import { apiCoachWithSkaters, linkFromMail, PHONE, shootBoth, signInThroughForm, uniqueEmail, watchErrors, ownServer } from './support';
+import { tapCue } from './board-phone-taps';
 
 const server = ownServer(8435);
 const BASE = server.base;
@@ -56,7 +57,7 @@ test('offline notes reach the server once; the skater reads and acknowledges; th
 
   const record = async (skaterId: string, cueIndex: number) => {
     await a.getByTestId(`skater-tile-${skaterId}`).click();
-    await a.getByTestId(`cue-chip-${cues[cueIndex].id}`).click();
+    await tapCue(a, cues[cueIndex]);
     await a.getByTestId(`skater-tile-${skaterId}`).click();
   };
   for (let i = 0; i < 14; i += 1) await record(jildou.id, i);
