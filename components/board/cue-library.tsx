@@ -3,7 +3,7 @@
  * phase, archive and bring back. Archived cues leave the chips but keep their history (old notes
  * still show their words). Every change is saved on this device and sent with the rest.
  */
-import { useState } from 'react';
+import { useRef, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { cueLabelSchema, phaseLabels, phases, type Phase } from '../../shared/cues';
@@ -25,7 +25,12 @@ export function CueLibrary({ teamId, cues, onClose }: { teamId: string; cues: Cu
   const [done, setDone] = useState<string | null>(null);
   const [failure, setFailure] = useState<string | null>(null);
 
+  // One change at a time: a second tap while the first is being saved does nothing (a gloved
+  // double tap on "Add cue" adds one cue, on "Move up" moves once).
+  const inFlight = useRef(false);
   const run = async (change: Parameters<typeof edit.mutateAsync>[0], confirmation: string) => {
+    if (inFlight.current) return false;
+    inFlight.current = true;
     setFailure(null);
     try {
       await edit.mutateAsync(change);
@@ -35,6 +40,8 @@ export function CueLibrary({ teamId, cues, onClose }: { teamId: string; cues: Cu
       setFailure(e instanceof Error ? e.message : String(e));
       setDone(null);
       return false;
+    } finally {
+      inFlight.current = false;
     }
   };
 
