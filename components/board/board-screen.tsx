@@ -295,9 +295,7 @@ export function BoardScreen() {
               {tiles}
             </ScrollView>
           )}
-          <View style={styles.slot} testID="board-slot">
-            {bottom}
-          </View>
+          <PhoneSlot recorder={recorder.store}>{bottom}</PhoneSlot>
           {noCues ?? <PhasePad cues={cues} focusIds={today.focusCueIds} onTap={onCueTap} />}
         </View>
         <View style={styles.phoneBelow}>
@@ -310,6 +308,19 @@ export function BoardScreen() {
     </View>
   );
 }
+
+/**
+ * The phone's slot between the tiles and the cues: a fixed height, so the chips never move when
+ * the pick line, the undo bar or a notice take turns in it; it grows only while a note is typed.
+ */
+const PhoneSlot = memo(function PhoneSlot({ recorder, children }: { recorder: RecorderStore; children: ReactNode }) {
+  const typing = useStore(recorder, (s) => s.hold);
+  return (
+    <View style={typing ? styles.slotOpen : styles.slot} testID="board-slot">
+      {children}
+    </View>
+  );
+});
 
 /**
  * The phone's group filter: one button that steps through Everyone, each group and "No group",
@@ -467,7 +478,14 @@ const BottomBar = memo(function BottomBar({
             : `For ${selected.length > 1 ? `all ${selected.length}: ` : ''}${namesOf(selected)}`}
         </Text>
         {selected.length > 0 ? (
-          <Button label="Clear" variant="secondary" onPress={onClearPick} testID="pick-bar-clear" accessibilityLabel="Clear the picked skaters" />
+          <Button
+            label="Clear"
+            variant="secondary"
+            style={styles.slotButton}
+            onPress={onClearPick}
+            testID="pick-bar-clear"
+            accessibilityLabel="Clear the picked skaters"
+          />
         ) : null}
       </View>
     );
@@ -520,8 +538,10 @@ const styles = StyleSheet.create({
   phoneLibrary: { alignItems: 'flex-start' },
   phoneTiles: { flexGrow: 0, flexShrink: 0, maxHeight: PHONE_TILES_MAX_HEIGHT },
   phoneTilesContent: { paddingHorizontal: 3 },
-  slot: { height: 60, flexDirection: 'row', alignItems: 'stretch' },
+  slot: { height: 60, flexDirection: 'row', alignItems: 'stretch', overflow: 'hidden' },
+  slotOpen: { minHeight: 60, flexDirection: 'row', alignItems: 'stretch' },
   groupSwitch: { paddingHorizontal: spacing.sm },
+  slotButton: { paddingVertical: spacing.xxs },
   phoneBelow: { padding: spacing.md, gap: spacing.lg, paddingBottom: spacing.xl, borderTopWidth: 1, borderTopColor: colors.divider },
   section: { gap: spacing.sm },
   sectionHead: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm },
@@ -539,7 +559,6 @@ const styles = StyleSheet.create({
     flexDirection: 'row',
     alignItems: 'center',
     gap: spacing.sm,
-    paddingVertical: spacing.xxs,
     paddingHorizontal: spacing.sm,
     backgroundColor: colors.surfaceSunken,
     borderRadius: radius.md,

@@ -129,12 +129,20 @@ export function UndoBar({ latest, notice, currentNote, onUndo, onSaveNote, onEdi
           <Button
             label="Undone"
             variant="secondary"
+            style={compact ? styles.sideButton : undefined}
             disabled
             testID="undo-button"
             accessibilityLabel={`Already undone: ${latest.cueLabel} for ${latest.names}`}
           />
         ) : (
-          <Button label="Undo" variant="secondary" onPress={onUndo} testID="undo-button" accessibilityLabel={`Undo: ${latest.cueLabel} for ${latest.names}`} />
+          <Button
+            label="Undo"
+            variant="secondary"
+            style={compact ? styles.sideButton : undefined}
+            onPress={onUndo}
+            testID="undo-button"
+            accessibilityLabel={`Undo: ${latest.cueLabel} for ${latest.names}`}
+          />
         )}
       </View>
       {editing && !undone ? (
@@ -176,8 +184,8 @@ const styles = StyleSheet.create({
     borderTopColor: colors.primary,
     borderRadius: radius.sm,
   },
-  barCompact: { borderTopWidth: 0, borderWidth: 2, borderColor: colors.primary, borderRadius: radius.md, paddingVertical: 2, paddingHorizontal: spacing.xs, flex: 1, justifyContent: 'center' },
-  markBoxCompact: { width: 32, height: 32 },
+  barCompact: { borderTopWidth: 0, borderWidth: 2, borderColor: colors.primary, borderRadius: radius.md, paddingVertical: 0, paddingHorizontal: spacing.xs, flex: 1, justifyContent: 'center' },
+  markBoxCompact: { width: 28, height: 28 },
   tight: { fontSize: 15, lineHeight: 18 },
   barUndone: { borderColor: colors.border, borderTopColor: colors.border, backgroundColor: colors.surfaceSunken },
   barPrompt: { borderTopColor: colors.error, borderColor: colors.error, backgroundColor: colors.errorSurface },
@@ -186,7 +194,7 @@ const styles = StyleSheet.create({
   markBox: { width: 40, height: 40, borderRadius: radius.md, borderWidth: 2, alignItems: 'center', justifyContent: 'center' },
   markBoxUndone: { borderColor: colors.border, backgroundColor: colors.surface },
   struck: { textDecorationLine: 'line-through' },
-  sideButton: { paddingHorizontal: spacing.sm },
+  sideButton: { paddingHorizontal: spacing.sm, paddingVertical: spacing.xxs, minWidth: 64 },
   words: { flex: 1 },
   addNote: { alignSelf: 'flex-start' },
   noteBox: { gap: spacing.xs },

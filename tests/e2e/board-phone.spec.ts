@@ -74,8 +74,11 @@ test('a squad of 16 on a phone: a skater and a cue from every phase, no scrollin
     const cue = cues.filter((c) => c.phase === phase).at(-1)!;
     const chip = page.getByTestId(i % 2 ? `cue-good-${cue.id}` : `cue-chip-${cue.id}`);
     await expectReachable(page, chip);
+    const before = await chip.boundingBox();
     await chip.click();
     await expect(page.getByTestId('undo-bar')).toContainText(cue.label);
+    // The undo bar took the pick line's slot: nothing under the thumb moved.
+    expect((await chip.boundingBox())!.y).toBe(before!.y);
     await expect(page.getByTestId('undo-bar')).toContainText(skater.displayName);
     await expectReachable(page, page.getByTestId('undo-button'));
     await expectNothingScrolled(page);
@@ -149,12 +152,24 @@ test('gloved double taps: one note per double tap on a chip, one tap undone per 
   await expect(page.getByTestId('feed')).toContainText(straight[1].label);
   await page.screenshot({ path: path.join(SHOTS, 'board-phone-undone-390.png') });
 
-  // What the device store holds: the same three notes after a reload.
+  // A note on the latest tap, typed on the phone: the slot grows for the box, then closes.
+  await page.waitForTimeout(4500); // the "Undone" bar has gone
+  await page.getByTestId(`cue-chip-${straight[3].id}`).click();
+  await page.getByTestId('note-add').click();
+  await page.getByTestId('note-input').fill('Hips drop on the last lap');
+  await page.screenshot({ path: path.join(SHOTS, 'board-phone-note-390.png') });
+  await page.getByTestId('note-save').click();
+  await expect(page.getByTestId('feed')).toContainText('Hips drop on the last lap');
+  await expect(feedItems(page)).toHaveCount(4);
+  await page.waitForTimeout(1500); // the note's write reaches the device store
+
+  // What the device store holds: the same notes after a reload.
   await page.reload();
   await expect(page.getByTestId('coach-home')).toBeVisible({ timeout: OPEN_MS });
-  await expect(feedItems(page)).toHaveCount(3);
+  await expect(feedItems(page)).toHaveCount(4);
   await expect(page.getByTestId(`tile-count-${skaters[0].id}`)).toContainText('2 notes');
-  await expect(page.getByTestId(`tile-count-${skaters[1].id}`)).toContainText('1 note');
+  await expect(page.getByTestId(`tile-count-${skaters[1].id}`)).toContainText('2 notes');
+  await expect(page.getByTestId('feed')).toContainText('Hips drop on the last lap');
   check();
   await page.close();
 });
