@@ -106,6 +106,21 @@ describe('BoardScreen', () => {
     expect(getByTestIdWeb('status-pending').props['aria-label']).toContain('2 notes and 1 session waiting');
   });
 
+  it('on a phone, one button steps the tiles through the groups', async () => {
+    renderBoard();
+    await waitFor(() => getByTestIdWeb('group-switch'));
+    expect(textOf(getByTestIdWeb('group-switch'))).toContain('Everyone');
+    await fireWeb(getByTestIdWeb('group-switch'), 'onPress');
+    expect(textOf(getByTestIdWeb('group-switch'))).toContain('Juniors');
+    expect(queryByTestIdWeb(`skater-tile-${ANNA}`)).not.toBeNull();
+    expect(queryByTestIdWeb(`skater-tile-${BRAM}`)).toBeNull();
+    await fireWeb(getByTestIdWeb('group-switch'), 'onPress');
+    expect(textOf(getByTestIdWeb('group-switch'))).toContain('No group');
+    expect(queryByTestIdWeb(`skater-tile-${ANNA}`)).toBeNull();
+    await fireWeb(getByTestIdWeb('group-switch'), 'onPress');
+    expect(textOf(getByTestIdWeb('group-switch'))).toContain('Everyone');
+  });
+
   it('records "needs work" from the main zone and "good" from the end zone, for the picked skaters', async () => {
     renderBoard();
     await waitFor(() => getByTestIdWeb(`cue-chip-${KNEE}`));
