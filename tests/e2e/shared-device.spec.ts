@@ -88,9 +88,15 @@ test('a coach and a skater on one phone: nothing leaks, nothing is lost, nothing
   // --- the coach, online first: two notes reach the server ---
   await signInThroughForm(page, BASE, coach.email, coach.password);
   await expect(page.getByTestId(`skater-tile-${wietske.id}`)).toBeVisible();
-  const record = async (skaterId: string, cueIndex: number) => {
+  const record = async (skaterId: string, cueIndex: number, note?: string) => {
     await page.getByTestId(`skater-tile-${skaterId}`).click();
     await tapCue(page, cues[cueIndex]);
+    if (note) {
+      // The undo bar offers the note until the pick changes.
+      await page.getByTestId('note-add').click();
+      await page.getByTestId('note-input').fill(note);
+      await page.getByTestId('note-save').click();
+    }
     await page.getByTestId(`skater-tile-${skaterId}`).click();
   };
   await record(wietske.id, 0);
@@ -103,10 +109,7 @@ test('a coach and a skater on one phone: nothing leaks, nothing is lost, nothing
   await server.stop();
   for (let i = 2; i < 5; i += 1) await record(wietske.id, i);
   for (let i = 5; i < 7; i += 1) await record(hidde.id, i);
-  await record(wietske.id, 7);
-  await page.getByTestId('note-add').click();
-  await page.getByTestId('note-input').fill(PRIVATE_TEXT);
-  await page.getByTestId('note-save').click();
+  await record(wietske.id, 7, PRIVATE_TEXT);
   await expect(page.locator('[data-testid^="feed-item-"]')).toHaveCount(8);
   const recordedIds = (await page.locator('[data-testid^="feed-item-"]').evaluateAll((els) => els.map((e) => e.getAttribute('data-testid')!))).map(
     (id) => id.slice('feed-item-'.length),
