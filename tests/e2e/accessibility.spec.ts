@@ -6,6 +6,7 @@
  */
 import { expect, test, type Page } from '@playwright/test';
 import { apiCoachWithSkaters, DESKTOP, expectNoA11yViolations, linkFromMail, PHONE, signInThroughForm, uniqueEmail, watchErrors } from './support';
+import { tapCue } from './board-phone-taps';
 
 /** Checks the screen at both widths, waiting for `ready` after each resize. */
 async function checkBoth(page: Page, label: string, ready: () => Promise<unknown>) {
@@ -38,7 +39,7 @@ test("the coach's screens have no accessibility violations", async ({ page, base
 
   // The board with a note recorded, so tiles carry counts and the feed has an item.
   await page.getByTestId(`skater-tile-${skaters[0].id}`).click();
-  await page.getByTestId(`cue-chip-${cues[0].id}`).click();
+  await tapCue(page, cues[0]);
   await expect(page.locator('[data-testid^="feed-item-"]').first()).toBeAttached();
   await checkBoth(page, 'board', () => expect(page.getByTestId(`skater-tile-${skaters[1].id}`)).toBeVisible());
 
@@ -87,7 +88,7 @@ test("the skater's today page has no accessibility violations", async ({ browser
   await signInThroughForm(c, base, coach.email, coach.password, 60_000);
   for (const cue of cues.slice(0, 2)) {
     await c.getByTestId(`skater-tile-${skaters[0].id}`).click();
-    await c.getByTestId(`cue-chip-${cue.id}`).click();
+    await tapCue(c, cue);
     await c.getByTestId(`skater-tile-${skaters[0].id}`).click();
   }
   await c.getByTestId('sync-summary').first().click();
