@@ -40,7 +40,6 @@ export const CueChip = memo(function CueChip({ cue, onTap }: { cue: Cue; onTap: 
       <Pressable
         testID={`cue-chip-${cue.id}`}
         accessibilityRole="button"
-        accessibilityLabel={`${cue.label}: needs work`}
         onPress={() => onTap(cue.id, 'needs_work')}
         style={({ pressed }) => [styles.main, pressed && styles.mainPressed]}
       >

@@ -79,7 +79,6 @@ export function UndoBar({ latest, notice, currentNote, onUndo, onSaveNote, onEdi
         setEditing(true);
       }}
       testID="note-add"
-      accessibilityLabel={currentNote ? 'Edit the note' : 'Add a note'}
     />
   );
   const kind = markKind(latest.mark);
