@@ -49,7 +49,7 @@ export const outboxOnDevice = () =>
     queryKey: boardKeys.outbox(),
     queryFn: async () => {
       const store = await deviceStore();
-      return { pending: await store.pendingCount(), byTable: await store.pendingByTable() };
+      return { pending: await store.pendingRecordCount(), byTable: await store.pendingByTable() };
     },
   });
 
