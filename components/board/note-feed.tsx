@@ -144,7 +144,8 @@ const FeedItem = memo(function FeedItem({
         <Pressable
           testID={`feed-open-${o.id}`}
           accessibilityRole={canChange ? 'button' : undefined}
-          accessibilityLabel={`${skater}, ${label}, ${marks[markKind(o.mark)].word}, ${time}${author ? `, from ${author}` : ''}.${canChange ? ' Edit' : ''}`}
+          // Named by what it shows (skater, time, cue, mark, author), so what a screen reader says
+          // is what a sighted coach reads; the button role and its expanded state say it opens.
           accessibilityState={canChange ? { expanded: open } : undefined}
           disabled={!canChange}
           onPress={() => onToggleOpen(o.id)}
