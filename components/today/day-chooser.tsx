@@ -75,8 +75,9 @@ function DayButton({ d, selected, today, onSelect, wide }: { d: SkaterDay; selec
       <Text weight="bold" tone={selected ? 'inverse' : 'default'}>
         {label}
       </Text>
+      {/* The day shown has its count in the summary under the heading: said once, not twice. */}
       <Text variant="caption" tone={selected ? 'inverse' : 'muted'}>
-        {dayDetail(d)}
+        {selected ? 'Shown below' : dayDetail(d)}
       </Text>
     </Pressable>
   );

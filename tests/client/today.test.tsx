@@ -135,6 +135,8 @@ describe('TodayScreen', () => {
     expect(textOf(getByTestIdWeb('note-text-n-curve'))).toContain('Lower hips in lap 3');
     expect(queryByTestIdWeb('note-text-n-start')).toBeNull();
     expect(textOf(getByTestIdWeb('today-summary'))).toBe('4 cues, 3 to acknowledge');
+    // The count is said once: the day shown does not repeat it in its button.
+    expect(textOf(getByTestIdWeb(`day-${TODAY}`))).not.toMatch(/\d+ cues?/);
     expect(getByTestIdWeb('safety-note')).toBeTruthy();
   });
 
