@@ -71,6 +71,8 @@ export type RequestOptions = {
   signal?: AbortSignal;
   /** Skip the refresh-and-retry dance (the auth endpoints themselves). */
   skipRefresh?: boolean;
+  /** Let the request finish after the page goes away (a push sent as the app is hidden or closed). */
+  keepalive?: boolean;
 };
 
 async function send(path: string, options: RequestOptions, token: string | null): Promise<Response> {
@@ -90,6 +92,7 @@ async function send(path: string, options: RequestOptions, token: string | null)
       // The refresh token is an HttpOnly cookie: it must ride along on every API call.
       credentials: 'include',
       signal: controller.signal,
+      ...(options.keepalive ? { keepalive: true } : {}),
     });
   } catch (cause) {
     if (options.signal?.aborted) throw cause;

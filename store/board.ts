@@ -16,6 +16,7 @@ import type { Phase } from '../shared/cues';
 import { type BoardSessionPatch, type Mark, type Observation, type ObservationPatch } from '../shared/schemas';
 import { deviceStore, localDay, sessionIdFor, type DeviceStore } from '../sync';
 import { useActiveMembership, useSession } from './session';
+import { notifyLocalChange } from './sync-status';
 import { useTeamSettings } from './team-settings';
 
 export const boardKeys = {
@@ -120,6 +121,8 @@ const outboxTimers = new WeakMap<QueryClient, ReturnType<typeof setTimeout>>();
  * ahead of the next tap's commit.
  */
 function refreshCounts(client: QueryClient, delayMs = 0) {
+  // A change was written: sync knows at once (the leave warning and the push on hide with it).
+  notifyLocalChange();
   clearTimeout(outboxTimers.get(client));
   outboxTimers.set(
     client,

@@ -109,6 +109,8 @@ const localChangeListeners = new Set<() => void>();
 
 /** Call after a local write to start the quiet-period countdown right away (optional: polled too). */
 export function notifyLocalChange(): void {
+  // At least this change waits now; the exact count follows with the next poll or run.
+  if (useSyncStatus.getState().pending === 0) useSyncStatus.setState({ pending: 1 });
   for (const listener of localChangeListeners) listener();
 }
 
@@ -155,11 +157,25 @@ export function useSyncTriggers(teamId: string | null | undefined, onChanged?: (
       cleanups.push(() => window.removeEventListener('online', online));
     }
     if (typeof document !== 'undefined' && typeof document.addEventListener === 'function') {
-      const visible = () => {
-        if (document.visibilityState === 'visible') void scheduler.request();
+      // Back in view: catch up. Going out of view (another app, the phone locked, the tab
+      // closing): send what waits now rather than after the quiet period, which may never come.
+      const visibility = () => {
+        if (document.visibilityState === 'visible' || useSyncStatus.getState().pending > 0) void scheduler.request();
       };
-      document.addEventListener('visibilitychange', visible);
-      cleanups.push(() => document.removeEventListener('visibilitychange', visible));
+      document.addEventListener('visibilitychange', visibility);
+      cleanups.push(() => document.removeEventListener('visibilitychange', visibility));
+    }
+    if (hasWindowEvents) {
+      // Closing or reloading the tab with changes not yet on the server: the browser asks first.
+      // (They are safe on the device either way; the warning is for a borrowed phone or a
+      // browser that clears its storage.)
+      const leaving = (event: BeforeUnloadEvent) => {
+        if (useSyncStatus.getState().pending === 0) return;
+        event.preventDefault();
+        event.returnValue = '';
+      };
+      window.addEventListener('beforeunload', leaving);
+      cleanups.push(() => window.removeEventListener('beforeunload', leaving));
     }
     cleanups.push(
       useConnectivity.subscribe((now, before) => {

@@ -31,9 +31,22 @@ async function call<T>(request: () => Promise<T>): Promise<T> {
 
 const healthSchema = z.object({ serverTime: z.string() });
 
+/** Browsers carry at most 64 KB of keepalive bodies at once; stay well under it. */
+export const KEEPALIVE_MAX_BYTES = 60_000;
+
+/**
+ * A push made while the page is hidden (the coach switched app, locked the phone or is closing
+ * the tab) is sent with `keepalive`, so it still reaches the server if the page is then closed.
+ * Only small bodies qualify: the browser refuses larger keepalive requests outright.
+ */
+export function mayOutliveThePage(body: unknown): boolean {
+  if (typeof document === 'undefined' || document.visibilityState !== 'hidden') return false;
+  return JSON.stringify(body).length <= KEEPALIVE_MAX_BYTES;
+}
+
 export const httpSyncTransport: SyncTransport = {
   time: () => call(async () => (await apiRequestParsed('/api/health', healthSchema)).serverTime),
-  push: (body) => call(() => apiRequestParsed('/api/sync/push', pushReplySchema, { method: 'POST', body })),
+  push: (body) => call(() => apiRequestParsed('/api/sync/push', pushReplySchema, { method: 'POST', body, keepalive: mayOutliveThePage(body) })),
   pull: ({ teamId, cursor, limit }) => {
     const query = new URLSearchParams({ teamId, cursor: String(cursor), limit: String(limit) });
     return call(() => apiRequestParsed(`/api/sync/pull?${query.toString()}`, pullReplySchema));

@@ -1,6 +1,6 @@
 /** Step 1, the HTTP transport: answers parsed with the shared schemas, failures mapped to the sync's error classes. */
 import { RequestRefused, ResyncRequired, ServerUnavailable, TransportError } from '../../sync/transport';
-import { httpSyncTransport, syncTransportFor } from '../../store/sync-transport';
+import { httpSyncTransport, KEEPALIVE_MAX_BYTES, syncTransportFor } from '../../store/sync-transport';
 
 const TEAM = '0193a000-0000-7000-8000-00000000aaaa';
 const clock = `${String(Date.UTC(2026, 11, 2)).padStart(15, '0')}-000000-server`;
@@ -67,5 +67,24 @@ describe('httpSyncTransport', () => {
     await expect(transport.push({ clientId: TEAM, teamId: TEAM, ops: [] })).rejects.toBeInstanceOf(TransportError);
     await expect(transport.pull({ teamId: TEAM, cursor: 0, limit: 10 })).rejects.toBeInstanceOf(TransportError);
     expect(fetch).toHaveBeenCalledTimes(1);
+  });
+
+  it('a push made while the page is hidden may outlive the page (keepalive), if small enough', async () => {
+    const fetch = answer(200, { results: [], serverClock: clock, serverTime: '2026-12-02T00:00:00Z' });
+    global.fetch = fetch as unknown as typeof global.fetch;
+    const g = globalThis as { document?: unknown };
+    const before = g.document;
+    try {
+      g.document = { visibilityState: 'visible' };
+      await httpSyncTransport.push({ clientId: TEAM, teamId: TEAM, ops: [] });
+      g.document = { visibilityState: 'hidden' };
+      await httpSyncTransport.push({ clientId: TEAM, teamId: TEAM, ops: [] });
+      const big = { clientId: TEAM, teamId: TEAM, ops: [], pad: 'x'.repeat(KEEPALIVE_MAX_BYTES) } as never;
+      await httpSyncTransport.push(big);
+    } finally {
+      g.document = before;
+    }
+    const flags = fetch.mock.calls.map((call) => ((call as unknown[])[1] as RequestInit).keepalive === true);
+    expect(flags).toEqual([false, true, false]);
   });
 });
