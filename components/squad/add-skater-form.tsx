@@ -1,5 +1,5 @@
 /** Add a skater profile (head coach): a name and, optionally, a group. */
-import { useRef, useState } from 'react';
+import { useState } from 'react';
 
 import { skaterCreateSchema, type Group } from '../../shared/schemas';
 import { isApiRequestError } from '../../store/api';
@@ -14,19 +14,8 @@ export function AddSkaterForm({ teamId, groups }: { teamId: string; groups: Grou
   const form = useZodForm(nameOnly, { displayName: '' });
   const [groupId, setGroupId] = useState<string>(NO_GROUP);
   const [added, setAdded] = useState<string | null>(null);
-  // A second tap while the first is on its way does nothing: a gloved double tap adds one skater.
-  const inFlight = useRef(false);
-
-  const onSubmit = async () => {
-    if (inFlight.current) return;
-    inFlight.current = true;
-    try {
-      await submit();
-    } finally {
-      inFlight.current = false;
-    }
-  };
-  const submit = () =>
+  // form.submit ignores a second tap while the first is being saved: one skater per double tap.
+  const onSubmit = () =>
     form.submit(async ({ displayName }) => {
       setAdded(null);
       try {

@@ -2,7 +2,7 @@
  * Invite someone by e-mail (head coach): an assistant coach, or a skater or guardian tied to one
  * skater profile. A preset (from the skater detail pane) fills role and profile in one tap.
  */
-import { useEffect, useRef, useState } from 'react';
+import { useEffect, useState } from 'react';
 import { z } from 'zod';
 
 import { invitationCreateSchema, type Skater } from '../../shared/schemas';
@@ -40,18 +40,8 @@ export function InviteForm({ teamId, skaters, preset }: { teamId: string; skater
   const role = (form.values.role || null) as InviteRole | null;
   const needsSkater = role === 'skater' || role === 'guardian';
 
-  // A second tap while the first is on its way does nothing: a gloved double tap sends one invitation.
-  const inFlight = useRef(false);
-  const onSubmit = async () => {
-    if (inFlight.current) return;
-    inFlight.current = true;
-    try {
-      await submit();
-    } finally {
-      inFlight.current = false;
-    }
-  };
-  const submit = () =>
+  // form.submit ignores a second tap while the first is being saved: one invitation per double tap.
+  const onSubmit = () =>
     form.submit(async (data) => {
       setSentTo(null);
       try {

@@ -71,18 +71,31 @@ export function useZodForm<K extends string, Out>(schema: z.ZodType<Out>, initia
     [checkField],
   );
 
-  /** Validates everything; calls onValid with the parsed (trimmed, lower-cased...) data if valid. */
+  // A submit while the previous one is still being saved does nothing: a gloved double tap on a
+  // form's button sends it once.
+  const inFlight = useRef(false);
+
+  /**
+   * Validates everything; calls onValid with the parsed (trimmed, lower-cased...) data if valid.
+   * Ignored while an earlier submit's onValid has not settled.
+   */
   const submit = useCallback(
     async (onValid: (data: Out) => Promise<unknown> | unknown) => {
-      for (const key of keys) touched.current.add(key);
-      setFormError(null);
-      const { ok, data, byField, other } = issuesFor(valuesRef.current);
-      setErrors(byField);
-      if (!ok) {
-        if (other.length > 0) setFormError(other[0]);
-        return;
+      if (inFlight.current) return;
+      inFlight.current = true;
+      try {
+        for (const key of keys) touched.current.add(key);
+        setFormError(null);
+        const { ok, data, byField, other } = issuesFor(valuesRef.current);
+        setErrors(byField);
+        if (!ok) {
+          if (other.length > 0) setFormError(other[0]);
+          return;
+        }
+        await onValid(data as Out);
+      } finally {
+        inFlight.current = false;
       }
-      await onValid(data as Out);
     },
     [issuesFor],
   );
