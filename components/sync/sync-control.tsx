@@ -89,6 +89,7 @@ export function SyncPanel({ onClose }: { onClose: () => void }) {
           style={styles.track}
           testID="sync-progress"
           accessibilityRole="progressbar"
+          accessibilityLabel="Sync progress"
           accessibilityValue={progress === null ? undefined : { min: 0, max: 100, now: Math.round(progress * 100) }}
         >
           <View style={[styles.fill, { width: `${Math.round((progress ?? 0.05) * 100)}%` }]} />
