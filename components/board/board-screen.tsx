@@ -127,10 +127,14 @@ export function BoardScreen() {
     remove.mutate({ sessionId, ids: [id] });
     say({ kind: 'undone', text: 'Note deleted.' });
   });
-  const saveLatestNote = useLatestCallback((latest: Recording, note: string) => {
+  const saveLatestNote = useLatestCallback((latest: Recording, note: string, shared: boolean) => {
     if (!sessionId) return;
-    for (const id of latest.ids) update.mutate({ sessionId, id, patch: { note } });
-    say({ kind: 'saved', text: note ? `Note saved for ${namesOf(latest.skaterIds)}.` : 'Note removed.' });
+    for (const id of latest.ids) update.mutate({ sessionId, id, patch: { note, noteShared: shared } });
+    const whom = namesOf(latest.skaterIds);
+    say({
+      kind: 'saved',
+      text: note ? `Note saved for ${whom}${shared ? ', shared with the skater' : ', coaches only'}.` : 'Note removed.',
+    });
   });
   const openLibrary = useCallback(() => setLibraryOpen(true), []);
   const closeLibrary = useCallback(() => setLibraryOpen(false), []);
@@ -452,15 +456,15 @@ const BottomBar = memo(function BottomBar({
   compact: boolean;
   onUndo: () => void;
   onEditing: (editing: boolean) => void;
-  onSaveNote: (latest: Recording, note: string) => void;
+  onSaveNote: (latest: Recording, note: string, shared: boolean) => void;
   onClearPick: () => void;
 }) {
   const latest = useStore(recorder, latestOf);
   const notice = useStore(recorder, (s) => s.notice);
   const selected = usePicked(skaterById);
   const latestId = latest?.ids[0];
-  const noteOf = useCallback((list: Observation[]) => (latestId ? (list.find((o) => o.id === latestId)?.note ?? '') : ''), [latestId]);
-  const currentNote = useQuery({ ...observationsOnDevice(sessionId), enabled: !!sessionId && !!latestId, select: noteOf }).data ?? '';
+  const noteOf = useCallback((list: Observation[]) => (latestId ? (list.find((o) => o.id === latestId) ?? null) : null), [latestId]);
+  const current = useQuery({ ...observationsOnDevice(sessionId), enabled: !!sessionId && !!latestId, select: noteOf }).data ?? null;
 
   // The phone's slot between the tiles and the cues: who the next tap goes to.
   if (compact && !latest && !notice) {
@@ -506,13 +510,14 @@ const BottomBar = memo(function BottomBar({
           : null
       }
       notice={notice}
-      currentNote={currentNote}
+      currentNote={current?.note ?? ''}
+      currentShared={current?.noteShared ?? false}
       onUndo={onUndo}
       onEditing={onEditing}
       wide={wide}
       compact={compact}
-      onSaveNote={(note) => {
-        if (latest) onSaveNote(latest, note);
+      onSaveNote={(note, shared) => {
+        if (latest) onSaveNote(latest, note, shared);
       }}
     />
   );

@@ -12,7 +12,7 @@ import { useEffect, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import type { Mark } from '../../shared/schemas';
-import { Button, MarkShape, Text, colors, marks, radius, spacing } from '../ui';
+import { Button, MarkShape, Text, ToggleRow, colors, marks, radius, spacing } from '../ui';
 import { markKind } from './format';
 import { NoteField, noteTooLong } from './note-field';
 import type { Notice } from './use-recorder';
@@ -21,8 +21,10 @@ export type UndoBarProps = {
   latest: { key: string; cueLabel: string; names: string; mark: Mark; repeat: number; count: number; undone?: boolean } | null;
   notice: Notice | null;
   currentNote: string;
+  /** Whether the note just made is shared with its skater (the team's default until changed here). */
+  currentShared: boolean;
   onUndo: () => void;
-  onSaveNote: (note: string) => void;
+  onSaveNote: (note: string, shared: boolean) => void;
   onEditing: (editing: boolean) => void;
   /** Wide screens: Add note sits beside Undo on one line. */
   wide?: boolean;
@@ -30,9 +32,10 @@ export type UndoBarProps = {
   compact?: boolean;
 };
 
-export function UndoBar({ latest, notice, currentNote, onUndo, onSaveNote, onEditing, wide = false, compact = false }: UndoBarProps) {
+export function UndoBar({ latest, notice, currentNote, currentShared, onUndo, onSaveNote, onEditing, wide = false, compact = false }: UndoBarProps) {
   const [editing, setEditing] = useState(false);
   const [draft, setDraft] = useState('');
+  const [shared, setShared] = useState(false);
   const latestKey = latest?.key ?? null;
 
   // A new tap (or the bar closing) ends any half-written note for the previous one.
@@ -76,6 +79,7 @@ export function UndoBar({ latest, notice, currentNote, onUndo, onSaveNote, onEdi
       style={wide || compact ? styles.sideButton : styles.addNote}
       onPress={() => {
         setDraft(currentNote);
+        setShared(currentShared);
         setEditing(true);
       }}
       testID="note-add"
@@ -153,11 +157,18 @@ export function UndoBar({ latest, notice, currentNote, onUndo, onSaveNote, onEdi
             label={latest.count > 1 ? `Note for all ${latest.count} skaters` : 'Note'}
             autoFocus
           />
+          <ToggleRow
+            label={latest.count > 1 ? 'Share note with these skaters' : 'Share note with the skater'}
+            hint="The cue and its mark always reach the skater; the note only when this is on."
+            value={shared}
+            onChange={setShared}
+            testID="note-shared"
+          />
           <View style={styles.row}>
             <Button
               label="Save note"
               onPress={() => {
-                onSaveNote(draft.trim());
+                onSaveNote(draft.trim(), shared);
                 setEditing(false);
               }}
               disabled={noteTooLong(draft)}

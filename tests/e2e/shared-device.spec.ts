@@ -13,7 +13,7 @@
 import { expect, test, type Page } from '@playwright/test';
 import path from 'node:path';
 import { mkdirSync } from 'node:fs';
-import { apiCoachWithSkaters, linkFromMail, ownServer, PHONE, SHOTS, signInThroughForm, uniqueEmail, watchErrors } from './support';
+import { apiCoachWithSkaters, linkFromMail, ownServer, PHONE, SHOTS, signInThroughForm, uniqueEmail, watchErrors, syncNow } from './support';
 import { tapCue } from './board-phone-taps';
 
 const server = ownServer(8445);
@@ -47,15 +47,6 @@ async function shot(page: Page, name: string) {
   await page.setViewportSize(PHONE);
   await page.waitForTimeout(150);
   await page.screenshot({ path: path.join(SHOTS, `${name}-390.png`), fullPage: true });
-}
-
-async function syncNow(page: Page) {
-  await page.getByTestId('sync-summary').first().click();
-  await page.getByTestId('sync-now').click();
-  await expect(page.getByTestId('sync-panel-pending')).toHaveText('0 changes waiting to be sent', { timeout: 20_000 });
-  await expect(page.getByTestId('sync-error')).toHaveCount(0);
-  await expect(page.getByTestId('sync-panel-last')).toContainText('Synced');
-  await page.getByTestId('sync-close').click();
 }
 
 test('a coach and a skater on one phone: nothing leaks, nothing is lost, nothing is sent twice', async ({ browser }) => {

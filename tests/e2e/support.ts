@@ -100,6 +100,16 @@ export async function apiCoachWithSkaters(base: string, names: string[]) {
   return { coach, skaters, cues };
 }
 
+/** Opens the sync panel, syncs by hand, waits until nothing is left to send and no error shows, closes it. */
+export async function syncNow(page: Page) {
+  await page.getByTestId('sync-summary').first().click();
+  await page.getByTestId('sync-now').click();
+  await expect(page.getByTestId('sync-panel-pending')).toHaveText('0 changes waiting to be sent', { timeout: 20_000 });
+  await expect(page.getByTestId('sync-error')).toHaveCount(0);
+  await expect(page.getByTestId('sync-panel-last')).toContainText('Synced');
+  await page.getByTestId('sync-close').click();
+}
+
 export async function signInThroughForm(page: Page, base: string, email: string, password: string, timeout?: number) {
   await page.goto(`${base}/sign-in`);
   await page.getByTestId('sign-in-email').fill(email);

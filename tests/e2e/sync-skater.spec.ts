@@ -5,7 +5,7 @@
  * and sees the acknowledgement. This test runs its own server so it can stop and restart it.
  */
 import { expect, test, type Page } from '@playwright/test';
-import { apiCoachWithSkaters, linkFromMail, PHONE, shootBoth, signInThroughForm, uniqueEmail, watchErrors, ownServer } from './support';
+import { apiCoachWithSkaters, linkFromMail, PHONE, shootBoth, signInThroughForm, uniqueEmail, watchErrors, ownServer, syncNow } from './support';
 import { tapCue } from './board-phone-taps';
 
 const server = ownServer(8435);
@@ -14,15 +14,6 @@ const startServer = () => server.start();
 const stopServer = () => server.stop();
 
 test.afterAll(stopServer);
-
-async function syncNow(page: Page) {
-  await page.getByTestId('sync-summary').first().click();
-  await page.getByTestId('sync-now').click();
-  await expect(page.getByTestId('sync-panel-pending')).toHaveText('0 changes waiting to be sent', { timeout: 20_000 });
-  await expect(page.getByTestId('sync-error')).toHaveCount(0);
-  await expect(page.getByTestId('sync-panel-last')).toContainText('Synced');
-  await page.getByTestId('sync-close').click();
-}
 
 test('offline notes reach the server once; the skater reads and acknowledges; the coach sees it', async ({ browser }) => {
   test.setTimeout(150_000);
@@ -55,13 +46,16 @@ test('offline notes reach the server once; the skater reads and acknowledges; th
   await a.evaluate(() => navigator.serviceWorker.ready.then(() => true));
   await stopServer();
 
-  const record = async (skaterId: string, cueIndex: number, note?: string) => {
+  const record = async (skaterId: string, cueIndex: number, note?: string, share = false) => {
     await a.getByTestId(`skater-tile-${skaterId}`).click();
     await tapCue(a, cues[cueIndex]);
     if (note) {
       // The undo bar offers the note until the pick changes.
       await a.getByTestId('note-add').click();
       await a.getByTestId('note-input').fill(note);
+      // The switch starts at the team's default (coaches only, for this new team).
+      await expect(a.getByTestId('note-shared')).toHaveAttribute('aria-checked', 'false');
+      if (share) await a.getByTestId('note-shared').click();
       await a.getByTestId('note-save').click();
     }
     await a.getByTestId(`skater-tile-${skaterId}`).click();
@@ -70,14 +64,16 @@ test('offline notes reach the server once; the skater reads and acknowledges; th
   for (let i = 0; i < 6; i += 1) await record(klaas.id, 14 + i);
   // A private note on one of Jildou's cues: the skater must never see its text.
   await record(jildou.id, 20, 'Left knee drops in the curve: check with the physio');
-  await expect(a.locator('[data-testid^="feed-item-"]')).toHaveCount(21);
+  // A note shared from the same sheet: the skater reads its words.
+  await record(jildou.id, 21, 'Lovely low sitting position — keep it 🙂', true);
+  await expect(a.locator('[data-testid^="feed-item-"]')).toHaveCount(22);
 
   await startServer();
   await syncNow(a);
   const onServer = await fetch(`${BASE}/api/sync/pull?teamId=${coach.teamId}&cursor=0&limit=1000`, {
     headers: { authorization: `Bearer ${coach.token}` },
   }).then((r) => r.json() as Promise<{ changes: { table: string; id: string }[] }>);
-  expect(onServer.changes.filter((c) => c.table === 'observations')).toHaveLength(21);
+  expect(onServer.changes.filter((c) => c.table === 'observations')).toHaveLength(22);
   // A second sync sends nothing twice.
   await syncNow(a);
 
@@ -91,9 +87,10 @@ test('offline notes reach the server once; the skater reads and acknowledges; th
   await b.getByTestId('sign-in-submit').click();
   await expect(b.getByTestId('skater-home')).toBeVisible();
   const acks = b.locator('[data-testid^="ack-"]');
-  await expect(acks).toHaveCount(15, { timeout: 20_000 });
+  await expect(acks).toHaveCount(16, { timeout: 20_000 });
   for (let i = 14; i < 20; i += 1) await expect(b.getByText(cues[i].label, { exact: true })).toHaveCount(0);
   await expect(b.getByText(/physio/)).toHaveCount(0);
+  await expect(b.getByText(/Lovely low sitting position/)).toBeVisible();
   await shootBoth(b, 'skater-today');
 
   const first = await acks.first().getAttribute('data-testid');
