@@ -12,7 +12,7 @@ import {
   type SignInInput,
   type SignUpInput,
 } from '../shared/schemas';
-import { apiRequest, apiRequestParsed } from './api';
+import { apiRequest, apiRequestParsed, SIGN_OUT_PATH } from './api';
 import { releaseDevice } from './device-owner';
 import { useSession } from './session';
 
@@ -63,10 +63,12 @@ export function useSignOut() {
   const signOutLocally = useSession((s) => s.signOutLocally);
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: () => apiRequest<void>('/api/auth/sign-out', { method: 'POST', skipRefresh: true }),
-    // Sign out on this device even if the server cannot be reached: the person asked to leave.
-    // The rows they could read leave the device first; their unsent changes stay, parked for them.
-    onSettled: async () => {
+    // The device signs out at once, whatever the server does: the person asked to leave, maybe
+    // handing the phone over. The sign-out is written down before its request leaves (store/api.ts)
+    // and sent again until the server has it, so nothing here waits for the answer. The rows
+    // they could read leave the device first; their unsent changes stay, parked for them.
+    mutationFn: async () => {
+      void apiRequest<void>(SIGN_OUT_PATH, { method: 'POST', skipRefresh: true }).catch(() => undefined);
       await releaseDevice();
       queryClient.clear();
       signOutLocally();
