@@ -4,6 +4,7 @@
  * rename, reorder and archive cues; archived cues keep their history.
  */
 import { z } from 'zod';
+import { nameKey } from './names';
 import { isSafeText } from './schemas/values';
 
 export const phases = ['start', 'opening', 'straight', 'curve', 'exit', 'pacing'] as const;
@@ -24,6 +25,8 @@ export const CUE_LABEL_MAX = 60;
 export const cueLabelSchema = z
   .string({ error: 'Cue text is required' })
   .trim()
+  // One form of each accented letter, so the unique label per phase cannot be dodged (shared/names.ts).
+  .normalize('NFC')
   .min(2, 'Cue text must be at least 2 characters')
   .max(CUE_LABEL_MAX, `Cue text must be at most ${CUE_LABEL_MAX} characters`)
   .refine(isSafeText, { error: 'Cue text cannot hold control characters or broken Unicode' });
@@ -55,3 +58,27 @@ export const defaultCues: Record<Phase, string[]> = {
 export const defaultCueList = phases.flatMap((phase) =>
   defaultCues[phase].map((label, index) => ({ phase, label, sortOrder: index + 1 })),
 );
+
+/**
+ * The cue of the phase that already has this label (compared like names: trimmed, NFC, any case),
+ * archived cues included (they can be brought back, and the server counts them), leaving out
+ * `exceptId` (the cue being renamed); undefined when the label is free.
+ */
+export function findDuplicateCueLabel<T extends { id: string; phase: Phase; label: string }>(
+  cues: readonly T[],
+  phase: Phase,
+  label: string,
+  exceptId?: string,
+): T | undefined {
+  const wanted = nameKey(label);
+  if (wanted === '') return undefined;
+  return cues.find((cue) => cue.id !== exceptId && cue.phase === phase && nameKey(cue.label) === wanted);
+}
+
+/** What the server (a refused push) and the cue library say when a label is taken in its phase. */
+export function duplicateCueMessage(existing: { label: string; phase: Phase; archived: boolean }): string {
+  const where = `in this phase (${phaseLabels[existing.phase]})`;
+  return existing.archived
+    ? `An archived cue called “${existing.label}” exists already ${where}: bring it back from the archive instead of adding it again.`
+    : `A cue called “${existing.label}” exists already ${where}.`;
+}

@@ -146,6 +146,8 @@ export const syncTables: Record<SyncTableName, SyncTable> = {
       displayName: { column: 'display_name', server: 'text', device: 'text' },
       groupId: { column: 'group_id', server: 'uuid', device: 'text' },
       hasAccount: { column: 'has_account', server: 'bool', device: 'bool', read: 'user_id IS NOT NULL' },
+      // Retired: off the board, kept in history (the head coach sets it through the team routes).
+      retired: { column: 'retired', server: 'bool', device: 'bool', read: 'retired_at IS NOT NULL' },
     },
   },
   groups: {

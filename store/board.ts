@@ -36,8 +36,14 @@ export const squadOnDevice = (teamId: string) =>
     queryKey: boardKeys.squad(teamId),
     queryFn: async () => {
       const store = await deviceStore();
-      const [groups, skaters] = await Promise.all([store.listGroups(teamId), store.listSkaters(teamId)]);
-      return { groups, skaters };
+      // `skaters`: the board's tiles and pickers (retired skaters are off the board);
+      // `everyone`: names for what was written before (the feed still names a retired skater).
+      const [groups, skaters, everyone] = await Promise.all([
+        store.listGroups(teamId),
+        store.listSkaters(teamId, { onBoard: true }),
+        store.listSkaters(teamId),
+      ]);
+      return { groups, skaters, everyone };
     },
   });
 

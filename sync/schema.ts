@@ -83,6 +83,12 @@ export const deviceMigrations: readonly string[] = [
   `
   ALTER TABLE observations ADD COLUMN author_name TEXT NOT NULL DEFAULT '';
   `,
+  // 4: retired skaters (off the board, their notes keep their name). Every skater the device holds
+  // was live when it was pulled: the server stamps a retirement with a new server_seq, so it
+  // comes down with the next pull.
+  `
+  ALTER TABLE skaters ADD COLUMN retired INTEGER NOT NULL DEFAULT 0;
+  `,
 ];
 
 export const DEVICE_SCHEMA_VERSION = deviceMigrations.length;

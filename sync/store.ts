@@ -405,8 +405,9 @@ export class DeviceStore {
     return squad.listGroups(this.ctx, teamId);
   }
 
-  listSkaters(teamId: string): Promise<Skater[]> {
-    return squad.listSkaters(this.ctx, teamId);
+  /** The team's skaters, retired ones included unless `onBoard` (the board's tiles leave them out). */
+  listSkaters(teamId: string, options?: squad.SkaterListOptions): Promise<Skater[]> {
+    return squad.listSkaters(this.ctx, teamId, options);
   }
 
   // ---- the outbox (the signed-in user's entries only) ---------------------------------------

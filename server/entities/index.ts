@@ -39,6 +39,7 @@ export class Skater {
   @Column({ type: 'text' }) displayName: string;
   @Column({ type: 'uuid', nullable: true }) groupId: string | null;
   @Column({ type: 'uuid', nullable: true }) userId: string | null;
+  @Column({ type: 'timestamptz', nullable: true }) retiredAt: Date | null;
 }
 
 @Entity('memberships')
@@ -60,6 +61,7 @@ export class Invitation {
   @Column({ type: 'uuid' }) invitedBy: string;
   @Column({ type: 'timestamptz' }) expiresAt: Date;
   @Column({ type: 'timestamptz', nullable: true }) acceptedAt: Date | null;
+  @Column({ type: 'timestamptz', nullable: true }) revokedAt: Date | null;
   @Column({ type: 'timestamptz', insert: false, update: false }) createdAt: Date;
 }
 

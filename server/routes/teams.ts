@@ -20,6 +20,7 @@ const toSkaterDto = (row: Skater): SkaterDto => ({
   displayName: row.displayName,
   groupId: row.groupId,
   hasAccount: row.userId !== null,
+  retired: row.retiredAt !== null,
 });
 
 export function teamRoutes(dataSource: DataSource) {
@@ -63,7 +64,7 @@ export function teamRoutes(dataSource: DataSource) {
     }
     const id = input.id ?? uuidv7();
     if (await dataSource.getRepository(Skater).existsBy({ teamId, id })) throw conflict('A skater with this id exists already');
-    const row = { teamId, id, displayName: input.displayName, groupId: input.groupId ?? null, userId: null };
+    const row = { teamId, id, displayName: input.displayName, groupId: input.groupId ?? null, userId: null, retiredAt: null };
     await dataSource.transaction(async (tx) => {
       // Stamped from the team's sync counter in the same transaction, so pulls see the profile.
       const serverSeq = await nextSeqs(tx, teamId, 1);

@@ -29,6 +29,7 @@ export const toInvitationDto = (row: Invitation): InvitationDto => ({
   createdAt: row.createdAt.toISOString(),
   expiresAt: row.expiresAt.toISOString(),
   acceptedAt: row.acceptedAt ? row.acceptedAt.toISOString() : null,
+  revokedAt: row.revokedAt ? row.revokedAt.toISOString() : null,
 });
 
 const invalidLink = () =>
@@ -66,6 +67,7 @@ export async function createInvitation(
     invitedBy,
     expiresAt: new Date(Date.now() + env().INVITATION_TTL_DAYS * 86_400_000),
     acceptedAt: null,
+    revokedAt: null,
   });
   const [team, inviter] = await Promise.all([
     dataSource.getRepository(Team).findOneByOrFail({ id: teamId }),

@@ -47,6 +47,8 @@ const hasNoControlCharacters = (value: string) => !/[\u0000-\u001f\u007f]/.test(
 export const displayNameSchema = z
   .string({ error: 'Name is required' })
   .trim()
+  // One form of each accented letter: names are compared and kept unique in NFC (shared/names.ts).
+  .normalize('NFC')
   .min(1, 'Name is required')
   .max(80, 'Name must be at most 80 characters')
   .refine(hasNoControlCharacters, { error: 'Name must not contain line breaks or control characters' });
@@ -163,5 +165,7 @@ export const invitationSchema = z.object({
   createdAt: z.string(),
   expiresAt: z.string(),
   acceptedAt: z.string().nullable(),
+  /** Set when the head coach withdrew the invitation: its link no longer works. */
+  revokedAt: z.string().nullable(),
 });
 export type Invitation = z.infer<typeof invitationSchema>;

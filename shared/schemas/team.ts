@@ -15,6 +15,8 @@ export const skaterSchema = z.object({
   groupId: z.uuid().nullable(),
   /** Whether a user account is linked (the skater can sign in). */
   hasAccount: z.boolean(),
+  /** Retired: kept in history (notes, runs, review) but off the board and out of the pickers. */
+  retired: z.boolean(),
 });
 export type Skater = z.infer<typeof skaterSchema>;
 
@@ -27,6 +29,30 @@ export const skaterCreateSchema = z
   })
   .strict();
 export type SkaterCreateInput = z.infer<typeof skaterCreateSchema>;
+
+/** What the head coach changes on a skater profile: rename, move to a group (or none), retire or bring back. */
+export const skaterUpdateSchema = z
+  .object({
+    displayName: displayNameSchema,
+    groupId: z.uuid({ error: 'groupId must be a UUID' }).nullable(),
+    retired: z.boolean({ error: 'retired must be true or false' }),
+  })
+  .partial()
+  .strict()
+  .refine((value) => Object.keys(value).length > 0, { error: 'Say what to change: displayName, groupId or retired' });
+export type SkaterUpdateInput = z.infer<typeof skaterUpdateSchema>;
+
+export const groupCreateSchema = z
+  .object({
+    id: z.uuid({ error: 'id must be a UUID' }).optional(),
+    name: displayNameSchema,
+  })
+  .strict();
+export type GroupCreateInput = z.infer<typeof groupCreateSchema>;
+
+/** Renaming a group (the head coach). */
+export const groupUpdateSchema = z.object({ name: displayNameSchema }).strict();
+export type GroupUpdateInput = z.infer<typeof groupUpdateSchema>;
 
 export const memberSchema = z.object({
   userId: z.uuid(),

@@ -1,6 +1,7 @@
 /**
  * The squad as the device holds it: groups and skaters (read-only here: they come from the server,
  * by pull or by a reload of the team), and the reload itself, which also brings the cue library.
+ * Retired skaters stay on the device (their notes keep their name) but are not on the board.
  */
 import type { Cue, Group, Skater } from '../../shared/schemas';
 import type { SqlValue } from '../driver';
@@ -38,9 +39,15 @@ export async function listGroups(ctx: StoreContext, teamId: string): Promise<Gro
   return rows.map((row) => decodeRow<Group>('groups', row));
 }
 
-export async function listSkaters(ctx: StoreContext, teamId: string): Promise<Skater[]> {
+/** Which skaters a list holds: everyone (names in history: feeds, the today page) or only those on the board. */
+export interface SkaterListOptions {
+  /** Only skaters who are not retired: the board's tiles and pickers. */
+  onBoard?: boolean;
+}
+
+export async function listSkaters(ctx: StoreContext, teamId: string, options: SkaterListOptions = {}): Promise<Skater[]> {
   const rows = await ctx.db.all<Record<string, SqlValue>>(
-    `SELECT id, ${selectColumns('skaters')} FROM skaters WHERE team_id = ? ORDER BY display_name`,
+    `SELECT id, ${selectColumns('skaters')} FROM skaters WHERE team_id = ?${options.onBoard ? ' AND retired = 0' : ''} ORDER BY display_name`,
     [teamId],
   );
   return rows.map((row) => decodeRow<Skater>('skaters', row));

@@ -194,7 +194,7 @@ describe('inviting a skater', () => {
     const [row] = await server.dataSource.query('SELECT user_id FROM skaters WHERE team_id = $1 AND id = $2', [head.teamId, profile.id]);
     expect(row.user_id).toBe(accepted.body.user.id);
     const squad = await request(server.app).get(`/api/teams/${head.teamId}/squad`).set(head.auth).expect(200);
-    expect(squad.body.skaters).toEqual([{ id: profile.id, displayName: 'Fenna Ijsselmoer', groupId: null, hasAccount: true }]);
+    expect(squad.body.skaters).toEqual([{ id: profile.id, displayName: 'Fenna Ijsselmoer', groupId: null, hasAccount: true, retired: false }]);
   });
 
   it('refuses a second skater invitation for a profile that already has an account (409)', async () => {

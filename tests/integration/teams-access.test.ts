@@ -70,12 +70,12 @@ describe('members of the team', () => {
 
   it('a skater reading the squad sees only their own profile', async () => {
     const res = await get(`${teamA()}/squad`, skaterAccount).expect(200);
-    expect(res.body.skaters).toEqual([{ id: skater1.id, displayName: 'Anouk Ribbelink', groupId: null, hasAccount: true }]);
+    expect(res.body.skaters).toEqual([{ id: skater1.id, displayName: 'Anouk Ribbelink', groupId: null, hasAccount: true, retired: false }]);
   });
 
   it('a guardian reading the squad sees only their skater', async () => {
     const res = await get(`${teamA()}/squad`, guardianAccount).expect(200);
-    expect(res.body.skaters).toEqual([{ id: skater2.id, displayName: 'Berend Schaatsma', groupId: null, hasAccount: false }]);
+    expect(res.body.skaters).toEqual([{ id: skater2.id, displayName: 'Berend Schaatsma', groupId: null, hasAccount: false, retired: false }]);
   });
 
   it('a skater may read their own profile but another skater\'s is 404', async () => {
@@ -120,7 +120,7 @@ describe('the head coach adding skaters', () => {
     const head = await signUpCoach(server.app, 'clientid');
     const id = uuidv7();
     const created = await post(`/api/teams/${head.teamId}/skaters`, head, { id, displayName: 'Evi Grachtzijl' }).expect(201);
-    expect(created.body).toEqual({ id, displayName: 'Evi Grachtzijl', groupId: null, hasAccount: false });
+    expect(created.body).toEqual({ id, displayName: 'Evi Grachtzijl', groupId: null, hasAccount: false, retired: false });
     expectError(await post(`/api/teams/${head.teamId}/skaters`, head, { id, displayName: 'Evi Again' }), 409, 'conflict');
   });
 

@@ -22,7 +22,7 @@ const iso = (ms: number) => new Date(ms).toISOString();
 async function openAhead() {
   const driver = await openMemoryDriver();
   const store = await DeviceStore.open(driver, { now: () => REAL_NOW + AHEAD });
-  await store.loadTeam(TEAM, { groups: [], skaters: [{ id: SKATER, displayName: 'Fenna', groupId: null, hasAccount: true }], cues: [CUE] });
+  await store.loadTeam(TEAM, { groups: [], skaters: [{ id: SKATER, displayName: 'Fenna', groupId: null, hasAccount: true, retired: false }], cues: [CUE] });
   return { driver, store };
 }
 

@@ -17,7 +17,7 @@ const cue: Cue = { id: uuidv7(), phase: 'curve', label: 'Lean in from the ankle'
 
 async function openStore() {
   const store = await DeviceStore.open(await openMemoryDriver(), { now: () => Date.UTC(2026, 11, 2, 9, 0, 0) });
-  await store.loadTeam(TEAM, { groups: [], skaters: [{ id: skaterId, displayName: 'Fenna Dijk', groupId: null, hasAccount: true }], cues: [cue] });
+  await store.loadTeam(TEAM, { groups: [], skaters: [{ id: skaterId, displayName: 'Fenna Dijk', groupId: null, hasAccount: true, retired: false }], cues: [cue] });
   const session = await store.startSession(TEAM, ANOUK);
   const [note] = await store.recordObservations({
     teamId: TEAM, userId: ANOUK, authorName: 'Anouk Brink', sessionId: session.id, skaterIds: [skaterId], cueId: cue.id, mark: 'needs_work',

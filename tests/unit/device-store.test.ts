@@ -19,7 +19,7 @@ async function openStore(now = () => Date.UTC(2026, 11, 2, 9, 0, 0)) {
   const store = await DeviceStore.open(driver, { now });
   await store.loadTeam(TEAM, {
     groups: [],
-    skaters: skaterIds.map((id, i) => ({ id, displayName: `Skater ${i}`, groupId: null, hasAccount: false })),
+    skaters: skaterIds.map((id, i) => ({ id, displayName: `Skater ${i}`, groupId: null, hasAccount: false, retired: false })),
     cues: [cue, { id: uuidv7(), phase: 'curve', label: 'Hug the blocks', sortOrder: 2, archived: false }],
   });
   const session = await store.startSession(TEAM, COACH);

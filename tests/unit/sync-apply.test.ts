@@ -45,7 +45,7 @@ describe('applyPullPage', () => {
       }),
     );
     expect(await store.listGroups(TEAM)).toEqual([{ id: groupId, name: 'Juniors', sortOrder: 2 }]);
-    expect((await store.listSkaters(TEAM)).find((s) => s.id === skaterId)).toEqual({ id: skaterId, displayName: 'Ada', groupId, hasAccount: true });
+    expect((await store.listSkaters(TEAM)).find((s) => s.id === skaterId)).toEqual({ id: skaterId, displayName: 'Ada', groupId, hasAccount: true, retired: false });
     expect((await store.listCues(TEAM)).find((c) => c.id === CUES[0].id)).toMatchObject({ label: 'Server label', sortOrder: 5, archived: true });
     expect(await store.getSession(session.id)).toMatchObject({ rink: 'Thialf', title: 'Tempo', focusCueIds: [CUES[0].id] });
     const [obs] = await driver.all<Record<string, unknown>>(`SELECT * FROM observations WHERE id = ?`, [obsId]);

@@ -154,7 +154,7 @@ export async function openDevice(now: () => number = () => Date.UTC(2026, 11, 2,
   const store = await DeviceStore.open(driver, { now });
   await store.loadTeam(TEAM, {
     groups: [],
-    skaters: SKATERS.map((id, i) => ({ id, displayName: `Skater ${i}`, groupId: null, hasAccount: false })),
+    skaters: SKATERS.map((id, i) => ({ id, displayName: `Skater ${i}`, groupId: null, hasAccount: false, retired: false })),
     cues: CUES,
   });
   const session = await store.startSession(TEAM, COACH);
