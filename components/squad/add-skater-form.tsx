@@ -1,17 +1,32 @@
-/** Add a skater profile (head coach): a name and, optionally, a group. */
-import { useState } from 'react';
+/**
+ * Add a skater profile (head coach): a name and, optionally, a group. A name the squad already has
+ * (any letter case, retired skaters included) is refused on the field before anything is sent;
+ * the server's 409 for a name added meanwhile lands on the same field.
+ */
+import { useMemo, useState } from 'react';
+import { z } from 'zod';
 
-import { skaterCreateSchema, type Group } from '../../shared/schemas';
+import { displayNameSchema, type Group, type Skater } from '../../shared/schemas';
 import { isApiRequestError } from '../../store/api';
 import { useAddSkater } from '../../store/team';
 import { Banner, Button, Card, ChoiceChips, Heading, TextField, useZodForm } from '../ui';
+import { skaterNameProblem } from './duplicates';
 
-const nameOnly = skaterCreateSchema.pick({ displayName: true });
 const NO_GROUP = 'none';
 
-export function AddSkaterForm({ teamId, groups }: { teamId: string; groups: Group[] }) {
+export function AddSkaterForm({ teamId, groups, skaters = [] }: { teamId: string; groups: Group[]; skaters?: Skater[] }) {
   const addSkater = useAddSkater(teamId);
-  const form = useZodForm(nameOnly, { displayName: '' });
+  const schema = useMemo(
+    () =>
+      z.object({
+        displayName: displayNameSchema.superRefine((value, ctx) => {
+          const message = skaterNameProblem(skaters, value);
+          if (message) ctx.addIssue({ code: 'custom', message });
+        }),
+      }),
+    [skaters],
+  );
+  const form = useZodForm(schema, { displayName: '' });
   const [groupId, setGroupId] = useState<string>(NO_GROUP);
   const [added, setAdded] = useState<string | null>(null);
   // form.submit ignores a second tap while the first is being saved: one skater per double tap.

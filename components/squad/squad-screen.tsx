@@ -1,27 +1,30 @@
 /**
- * Squad: the team's groups and skaters. The head coach also adds skaters, invites people and sees
- * open invitations. Phone: one column. Wide: the list on the left, the selected skater and the
- * forms in a pane beside it.
+ * Squad: the team's groups and skaters, and the people with an account. The head coach also
+ * changes skaters (rename, move, retire), adds skaters and groups, invites people, follows up on
+ * invitations and removes members. Phone: one column, the selected skater on top. Wide: the list
+ * and the people on the left, the selected skater and the forms in a pane beside them.
  */
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import type { Skater } from '../../shared/schemas';
-import { useActiveMembership } from '../../store/session';
+import { useActiveMembership, useSession } from '../../store/session';
 import { invitationsQuery, squadQuery } from '../../store/team';
 import { Banner, Button, Card, Heading, Loading, Screen, Text, layout, spacing, useBreakpoint } from '../ui';
 import { AddSkaterForm } from './add-skater-form';
 import { InvitationList } from './invitation-list';
 import { InviteForm, type InvitePreset, type InviteRole } from './invite-form';
 import { SkaterDetail } from './skater-detail';
-import { SquadList } from './squad-list';
+import { SquadList, activeSkaters } from './squad-list';
+import { StaffList } from './staff-list';
 
 export function SquadScreen() {
   const membership = useActiveMembership();
   const wide = useBreakpoint() === 'wide';
   const teamId = membership?.teamId ?? '';
   const isHead = membership?.role === 'head_coach';
+  const userId = useSession((s) => s.user?.id ?? null);
 
   const squad = useQuery({ ...squadQuery(teamId), enabled: !!teamId });
   // Only the head coach manages invitations; asking as an assistant would just earn a 403.
@@ -48,7 +51,7 @@ export function SquadScreen() {
         <Button label="Try again" variant="secondary" testID="squad-retry" onPress={() => void squad.refetch()} />
       </View>
     );
-  else if (squad.data.skaters.length === 0 && squad.data.groups.length === 0)
+  else if (skaters.length === 0 && groups.length === 0)
     listBody = (
       <Text tone="muted" testID="squad-empty">
         No skaters yet.{isHead ? ' Add the first one with the form.' : ''}
@@ -57,16 +60,18 @@ export function SquadScreen() {
   else
     listBody = (
       <SquadList
+        teamId={teamId}
         squad={squad.data}
         selectedId={selectedId}
+        canManage={isHead}
         onSelect={(s: Skater) => setSelectedId((current) => (current === s.id ? null : s.id))}
       />
     );
 
   const listPane = (
-    <Card style={wide ? styles.listPaneWide : undefined} testID="squad-list-pane">
+    <Card testID="squad-list-pane">
       <Heading level={2}>
-        {`Skaters${squad.data ? ` (${squad.data.skaters.length})` : ''}`}
+        {`Skaters${squad.data ? ` (${activeSkaters(skaters).length})` : ''}`}
       </Heading>
       {listBody}
     </Card>
@@ -74,9 +79,13 @@ export function SquadScreen() {
 
   const detail = selected ? (
     <SkaterDetail
+      // A new skater starts with closed forms and no message from the previous one.
+      key={selected.id}
+      teamId={teamId}
       skater={selected}
+      skaters={skaters}
       groups={groups}
-      canInvite={isHead}
+      canManage={isHead}
       onInvite={startInvite}
       onClose={() => setSelectedId(null)}
     />
@@ -85,9 +94,9 @@ export function SquadScreen() {
   const manage =
     isHead && teamId ? (
       <>
-        <AddSkaterForm teamId={teamId} groups={groups} />
-        <InviteForm teamId={teamId} skaters={skaters} preset={preset} />
-        {invitations.data ? <InvitationList invitations={invitations.data} skaters={skaters} /> : null}
+        <AddSkaterForm teamId={teamId} groups={groups} skaters={skaters} />
+        <InviteForm teamId={teamId} skaters={activeSkaters(skaters)} preset={preset} />
+        {invitations.data ? <InvitationList teamId={teamId} invitations={invitations.data} skaters={skaters} /> : null}
         {invitations.isError ? (
           <Banner kind="error" testID="invitations-load-error">
             {invitations.error.message}
@@ -96,16 +105,21 @@ export function SquadScreen() {
       </>
     ) : (
       <Banner kind="info" testID="squad-coach-note">
-        Only the head coach can add skaters and invite people.
+        Only the head coach can add, change or retire skaters and invite or remove people.
       </Banner>
     );
+
+  const staff = teamId ? <StaffList teamId={teamId} skaters={skaters} currentUserId={userId} canManage={isHead} /> : null;
 
   return (
     <Screen testID="squad-home" edges={[]} width={wide ? 'full' : 'content'}>
       <Heading>Squad</Heading>
       {wide ? (
         <View style={styles.panes}>
-          {listPane}
+          <View style={[styles.stack, styles.listPaneWide]}>
+            {listPane}
+            {staff}
+          </View>
           <View style={[styles.stack, styles.sidePaneWide]}>
             {detail}
             {manage}
@@ -117,6 +131,7 @@ export function SquadScreen() {
           {detail}
           {listPane}
           {manage}
+          {staff}
         </>
       )}
     </Screen>
