@@ -6,7 +6,7 @@
 import { useRef, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
-import { cueLabelSchema, phaseLabels, phases, type Phase } from '../../shared/cues';
+import { cueLabelSchema, duplicateCueMessage, findDuplicateCueLabel, phaseLabels, phases, type Phase } from '../../shared/cues';
 import type { Cue } from '../../shared/schemas';
 import { useEditCue } from '../../store/board';
 import { Banner, Button, Card, ChoiceChips, Heading, Text, TextField, colors, radius, spacing } from '../ui';
@@ -14,6 +14,15 @@ import { Banner, Button, Card, ChoiceChips, Heading, Text, TextField, colors, ra
 const labelError = (text: string) => {
   const result = cueLabelSchema.safeParse(text);
   return result.success ? null : (result.error.issues[0]?.message ?? 'Check the cue text');
+};
+
+/**
+ * Why a label is refused in a phase: its form, or a cue of that phase (archived ones too) already
+ * worded the same, in the words the server uses when it refuses such a push.
+ */
+const labelProblem = (cues: readonly Cue[], phase: Phase, text: string, exceptId?: string) => {
+  const twin = findDuplicateCueLabel(cues, phase, text, exceptId);
+  return labelError(text) ?? (twin ? duplicateCueMessage(twin) : null);
 };
 
 export function CueLibrary({ teamId, cues, onClose }: { teamId: string; cues: Cue[]; onClose: () => void }) {
@@ -46,7 +55,7 @@ export function CueLibrary({ teamId, cues, onClose }: { teamId: string; cues: Cu
   };
 
   const add = async () => {
-    const problem = labelError(text);
+    const problem = labelProblem(cues, phase, text);
     setAddError(problem);
     if (problem) return;
     if (await run({ kind: 'add', phase, label: text.trim() }, `Added “${text.trim()}” to ${phaseLabels[phase]}.`)) setText('');
@@ -54,7 +63,8 @@ export function CueLibrary({ teamId, cues, onClose }: { teamId: string; cues: Cu
 
   const saveRename = async () => {
     if (!renaming) return;
-    const problem = labelError(renaming.text);
+    const renamed = cues.find((c) => c.id === renaming.id);
+    const problem = renamed ? labelProblem(cues, renamed.phase, renaming.text, renamed.id) : labelError(renaming.text);
     if (problem) return setRenaming({ ...renaming, error: problem });
     if (await run({ kind: 'rename', id: renaming.id, label: renaming.text.trim() }, `Renamed to “${renaming.text.trim()}”.`)) setRenaming(null);
   };
@@ -86,14 +96,18 @@ export function CueLibrary({ teamId, cues, onClose }: { teamId: string; cues: Cu
           label="Phase"
           choices={phases.map((p) => ({ value: p, label: phaseLabels[p], testID: `cue-add-phase-${p}` }))}
           value={phase}
-          onChange={setPhase}
+          onChange={(next) => {
+            setPhase(next);
+            // The same words may be free in the other phase.
+            if (addError) setAddError(labelProblem(cues, next, text));
+          }}
         />
         <TextField
           label="Cue text (2 to 60 characters)"
           value={text}
           onChangeText={(t) => {
             setText(t);
-            if (addError) setAddError(labelError(t));
+            if (addError) setAddError(labelProblem(cues, phase, t));
           }}
           onSubmitEditing={() => void add()}
           error={addError}
@@ -119,7 +133,9 @@ export function CueLibrary({ teamId, cues, onClose }: { teamId: string; cues: Cu
                   <TextField
                     label={`Rename “${cue.label}”`}
                     value={renaming.text}
-                    onChangeText={(t) => setRenaming({ ...renaming, text: t, error: renaming.error ? labelError(t) : null })}
+                    onChangeText={(t) =>
+                      setRenaming({ ...renaming, text: t, error: renaming.error ? labelProblem(cues, cue.phase, t, cue.id) : null })
+                    }
                     onSubmitEditing={() => void saveRename()}
                     error={renaming.error}
                     autoFocus
