@@ -110,7 +110,11 @@ export async function syncNow(page: Page) {
   await page.getByTestId('sync-close').click();
 }
 
-export async function signInThroughForm(page: Page, base: string, email: string, password: string, timeout?: number) {
+/**
+ * Signs in through the form and waits for the board. The first sign-in of a fresh browser opens the
+ * device database and runs a first sync, which on a busy 2-core machine can take well over 10 s.
+ */
+export async function signInThroughForm(page: Page, base: string, email: string, password: string, timeout = 30_000) {
   await page.goto(`${base}/sign-in`);
   await page.getByTestId('sign-in-email').fill(email);
   await page.getByTestId('sign-in-password').fill(password);
