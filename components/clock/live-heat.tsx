@@ -1,0 +1,182 @@
+/**
+ * The heat while it runs. Phone (390 × 844): the elapsed clock across the top (the largest figures
+ * on the screen), a one-line notice slot under it (a double tap ignored, an undo), then the lanes
+ * filling the rest of the height — side by side for a pair, two columns of three for a group — each
+ * lane card one big button, with Undo and Stop under it; the ice caution last. Nothing scrolls.
+ * Wide (>= 1024 px): the same clock bigger, the lanes side by side on the left and the heat's table
+ * following every crossing on the right.
+ *
+ * The screen's data and actions come from the clock screen; this file only lays them out.
+ */
+import { memo, useEffect, useState, type ReactNode } from 'react';
+import { ScrollView, StyleSheet, View, useWindowDimensions } from 'react-native';
+
+import { Banner, Button, Text, colors, radius, spacing } from '../ui';
+import { ClockCaution } from './clock-caution';
+import { distanceLabel, trackLabel } from './clock-math';
+import { ElapsedClock } from './elapsed-clock';
+import { LaneButton, type LaneButtonProps, type LaneView } from './lane-button';
+import { useClockUi, type LiveHeat as Heat } from './use-clock';
+import type { WakeState } from './wake-lock';
+
+export type LiveHeatProps = Omit<LaneButtonProps, 'view' | 'density'> & {
+  heat: Heat;
+  lanes: LaneView[];
+  wide: boolean;
+  wake: WakeState;
+  onEnd: () => void;
+  /** The heat's table (wide layout only). */
+  table?: ReactNode;
+};
+
+/** Expected characters of the elapsed time for a distance ("38.12", "1:52.43", "13:12.33"). */
+const clockChars = (distanceM: number) => (distanceM > 0 && distanceM <= 500 ? 5 : distanceM > 0 && distanceM <= 1500 ? 7 : 8);
+
+export const LiveHeatView = memo(function LiveHeatView({ heat, lanes, wide, wake, onEnd, table, ...actions }: LiveHeatProps) {
+  const { width } = useWindowDimensions();
+  const voiceOn = useClockUi((s) => s.voiceOn);
+  const setVoice = useClockUi((s) => s.setVoice);
+  const [confirmEnd, setConfirmEnd] = useState(false);
+  useEffect(() => {
+    if (!confirmEnd) return;
+    const timer = setTimeout(() => setConfirmEnd(false), 4000);
+    return () => clearTimeout(timer);
+  }, [confirmEnd]);
+
+  // The clock's digits sized to the room beside the two small buttons (condensed figures are
+  // about half as wide as they are tall).
+  const contentWidth = wide ? width - 248 - 2 * spacing.xl : width - 2 * spacing.sm;
+  const room = wide ? Math.min(contentWidth * 0.55, 760) : contentWidth - 112;
+  const fontSize = Math.max(48, Math.min(wide ? 168 : 96, Math.floor(room / (clockChars(heat.distanceM) * 0.5))));
+  const group = lanes.length > 2;
+  const density = wide ? (group ? 'pair' : 'roomy') : group ? 'compact' : 'pair';
+
+  const top = (
+    <View style={styles.top}>
+      <View style={styles.clockCol}>
+        <ElapsedClock startPerfTs={heat.startPerfTs} offsetMs={heat.offsetMs} running fontSize={fontSize} approximate={heat.resumed} />
+        <Text variant="caption" tone="muted" testID="clock-heat-what">
+          {`${distanceLabel(heat.distanceM)} · ${trackLabel(heat.track)}${heat.offsetMs ? ` · offset ${(heat.offsetMs / 1000).toFixed(2)} s` : ''}`}
+        </Text>
+      </View>
+      <View style={styles.topButtons}>
+        <Button
+          label={voiceOn ? '\u2713 Voice' : 'Voice off'}
+          accessibilityLabel={voiceOn ? '\u2713 Voice: splits read aloud (on)' : 'Voice off: splits not read aloud'}
+          variant="secondary"
+          testID="clock-voice"
+          onPress={() => setVoice(!voiceOn)}
+          style={styles.smallButton}
+        />
+        <Button
+          label={confirmEnd ? 'Sure? End' : 'End'}
+          accessibilityLabel={confirmEnd ? 'Sure? End timing now' : 'End timing for everyone'}
+          variant={confirmEnd ? 'primary' : 'secondary'}
+          testID="clock-end"
+          onPress={() => {
+            if (confirmEnd) {
+              setConfirmEnd(false);
+              onEnd();
+            } else setConfirmEnd(true);
+          }}
+          style={styles.smallButton}
+        />
+      </View>
+    </View>
+  );
+
+  const lanesView = (
+    <View style={[styles.lanes, group && !wide && styles.lanesGroup, group && wide && styles.lanesWideGroup]} testID="clock-lanes">
+      {lanes.map((view) => (
+        <View key={view.runId} style={group ? (wide ? styles.cellWideGroup : styles.cellGroup) : styles.cellPair}>
+          <LaneButton view={view} density={density} {...actions} />
+        </View>
+      ))}
+    </View>
+  );
+
+  const body = (
+    <>
+      {top}
+      <Notices resumed={heat.resumed} wake={wake} />
+      {wide ? (
+        <View style={styles.wideRow}>
+          <View style={styles.wideLanes}>{lanesView}</View>
+          {table ? (
+            <ScrollView style={styles.tablePane} contentContainerStyle={styles.tableContent} testID="clock-live-table">
+              {table}
+            </ScrollView>
+          ) : null}
+        </View>
+      ) : (
+        lanesView
+      )}
+      <ClockCaution short />
+    </>
+  );
+
+  return (
+    <ScrollView style={styles.fill} contentContainerStyle={[styles.page, wide && styles.pageWide]} testID="clock-live">
+      {body}
+    </ScrollView>
+  );
+});
+
+/** The one-line slot under the clock: a notice, or the resumed / screen-awake state. Fixed height. */
+function Notices({ resumed, wake }: { resumed: boolean; wake: WakeState }) {
+  const notice = useClockUi((s) => s.notice);
+  const clear = useClockUi((s) => s.clearNotice);
+  useEffect(() => {
+    if (!notice) return;
+    const timer = setTimeout(clear, 4000);
+    return () => clearTimeout(timer);
+  }, [notice, clear]);
+  const line = notice
+    ? notice.text
+    : resumed
+      ? '\u2248 Resumed after a reload: saved crossings are exact; the clock now runs from the device time.'
+      : wake === 'unsupported' || wake === 'refused'
+        ? 'This browser cannot keep the screen on: keep it awake yourself.'
+        : '';
+  return (
+    <View style={styles.notice} role="status" aria-live="polite" testID="clock-notice">
+      {line ? (
+        notice?.kind === 'error' ? (
+          <Banner kind="error">{line}</Banner>
+        ) : (
+          <Text variant="caption" weight="bold" numberOfLines={2} testID={notice ? `clock-notice-${notice.kind}` : resumed ? 'clock-resumed' : 'clock-wake'}>
+            {line}
+          </Text>
+        )
+      ) : null}
+    </View>
+  );
+}
+
+const styles = StyleSheet.create({
+  fill: { flex: 1, backgroundColor: colors.background },
+  page: { flexGrow: 1, padding: spacing.sm, gap: spacing.xs },
+  pageWide: { padding: spacing.xl, gap: spacing.md },
+  top: { flexDirection: 'row', alignItems: 'center', gap: spacing.xs },
+  clockCol: { flex: 1, minWidth: 0 },
+  topButtons: { gap: spacing.xs, width: 104 },
+  smallButton: { paddingHorizontal: spacing.xs },
+  notice: { minHeight: 40, justifyContent: 'center' },
+  lanes: { flex: 1, flexDirection: 'row', gap: spacing.xs, minHeight: 360 },
+  lanesGroup: { flexWrap: 'wrap', rowGap: spacing.xs },
+  lanesWideGroup: { flexWrap: 'wrap', rowGap: spacing.md },
+  cellPair: { flex: 1, minWidth: 0 },
+  cellGroup: { width: '48.8%', height: '32%', minHeight: 180 },
+  cellWideGroup: { width: '32%', height: '48%', minHeight: 260 },
+  wideRow: { flex: 1, flexDirection: 'row', gap: spacing.lg, minHeight: 520 },
+  wideLanes: { flex: 2, minWidth: 0 },
+  tablePane: {
+    flex: 1,
+    maxWidth: 480,
+    borderRadius: radius.lg,
+    borderWidth: 1,
+    borderColor: colors.divider,
+    backgroundColor: colors.surface,
+  },
+  tableContent: { padding: spacing.md, gap: spacing.xl },
+});
