@@ -101,6 +101,7 @@ export function SkaterDetail({ teamId, skater, skaters, groups, canManage, onInv
             Retired
           </Text>
         ) : null}
+        <Button label="Close" variant="quiet" testID="squad-detail-close" onPress={onClose} />
       </View>
       <Text testID="squad-detail-group">{group ? `Group: ${group.name}` : 'Not in a group'}</Text>
       <Text tone="muted">
@@ -218,7 +219,6 @@ export function SkaterDetail({ teamId, skater, skaters, groups, canManage, onInv
         </>
       ) : null}
 
-      <Button label="Close" variant="quiet" testID="squad-detail-close" style={styles.start} onPress={onClose} />
     </Card>
   );
 }
@@ -287,10 +287,48 @@ function RenameForm({
   );
 }
 
-/** A new group, named once; it appears among the group chips above for the coach to pick. */
+/**
+ * A new group, named once; it appears among the group chips above for the coach to pick. Closed
+ * behind one button until needed, so the skater's pane stays short on a phone.
+ */
 function NewGroupForm({ teamId, groups }: { teamId: string; groups: Group[] }) {
-  const addGroup = useAddGroup(teamId);
+  const [open, setOpen] = useState(false);
   const [added, setAdded] = useState<string | null>(null);
+  if (!open) {
+    return (
+      <View style={styles.section}>
+        {added ? (
+          <Banner kind="success" testID="squad-new-group-done">
+            {`Group “${added}” added. Pick it above to move the skater.`}
+          </Banner>
+        ) : null}
+        <Button
+          label="New group"
+          variant="quiet"
+          testID="squad-new-group-open"
+          style={styles.start}
+          onPress={() => {
+            setAdded(null);
+            setOpen(true);
+          }}
+        />
+      </View>
+    );
+  }
+  return (
+    <NewGroupFields
+      teamId={teamId}
+      groups={groups}
+      onDone={(name) => {
+        setAdded(name);
+        setOpen(false);
+      }}
+    />
+  );
+}
+
+function NewGroupFields({ teamId, groups, onDone }: { teamId: string; groups: Group[]; onDone: (added: string | null) => void }) {
+  const addGroup = useAddGroup(teamId);
   const schema = useMemo(
     () =>
       z.object({
@@ -305,11 +343,9 @@ function NewGroupForm({ teamId, groups }: { teamId: string; groups: Group[] }) {
 
   const save = () =>
     form.submit(async ({ name }) => {
-      setAdded(null);
       try {
         const group = await addGroup.mutateAsync({ name });
-        form.reset();
-        setAdded(group.name);
+        onDone(group.name);
       } catch (error) {
         form.applyServerError(isApiRequestError(error) ? error : { message: 'Could not add the group. Try again.' });
       }
@@ -317,11 +353,6 @@ function NewGroupForm({ teamId, groups }: { teamId: string; groups: Group[] }) {
 
   return (
     <View style={styles.box} testID="squad-new-group">
-      {added ? (
-        <Banner kind="success" testID="squad-new-group-done">
-          {`Group “${added}” added. Pick it above to move the skater.`}
-        </Banner>
-      ) : null}
       {form.formError ? (
         <Banner kind="error" testID="squad-new-group-error">
           {form.formError}
@@ -332,24 +363,27 @@ function NewGroupForm({ teamId, groups }: { teamId: string; groups: Group[] }) {
         hint="For example Juniors or Sprint"
         testID="squad-new-group-name"
         autoCapitalize="words"
+        autoFocus
         onSubmitEditing={() => void save()}
         {...form.field('name')}
       />
-      <Button
-        label={addGroup.isPending ? 'Adding…' : 'Add group'}
-        variant="secondary"
-        testID="squad-new-group-submit"
-        loading={addGroup.isPending}
-        style={styles.start}
-        onPress={() => void save()}
-      />
+      <View style={styles.actions}>
+        <Button
+          label={addGroup.isPending ? 'Adding…' : 'Add group'}
+          variant="secondary"
+          testID="squad-new-group-submit"
+          loading={addGroup.isPending}
+          onPress={() => void save()}
+        />
+        <Button label="Cancel" variant="quiet" testID="squad-new-group-cancel" onPress={() => onDone(null)} />
+      </View>
     </View>
   );
 }
 
 const styles = StyleSheet.create({
   titleRow: { flexDirection: 'row', alignItems: 'center', gap: spacing.sm, flexWrap: 'wrap' },
-  grow: { flexShrink: 1 },
+  grow: { flex: 1 },
   retiredTag: {
     paddingHorizontal: spacing.xs,
     paddingVertical: 2,

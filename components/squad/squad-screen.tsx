@@ -96,12 +96,6 @@ export function SquadScreen() {
       <>
         <AddSkaterForm teamId={teamId} groups={groups} skaters={skaters} />
         <InviteForm teamId={teamId} skaters={activeSkaters(skaters)} preset={preset} />
-        {invitations.data ? <InvitationList teamId={teamId} invitations={invitations.data} skaters={skaters} /> : null}
-        {invitations.isError ? (
-          <Banner kind="error" testID="invitations-load-error">
-            {invitations.error.message}
-          </Banner>
-        ) : null}
       </>
     ) : (
       <Banner kind="info" testID="squad-coach-note">
@@ -109,7 +103,18 @@ export function SquadScreen() {
       </Banner>
     );
 
-  const staff = teamId ? <StaffList teamId={teamId} skaters={skaters} currentUserId={userId} canManage={isHead} /> : null;
+  // Who has an account, and who was asked to: together, beside the skaters on a wide screen.
+  const people = teamId ? (
+    <>
+      {isHead && invitations.data ? <InvitationList teamId={teamId} invitations={invitations.data} skaters={skaters} /> : null}
+      {isHead && invitations.isError ? (
+        <Banner kind="error" testID="invitations-load-error">
+          {invitations.error.message}
+        </Banner>
+      ) : null}
+      <StaffList teamId={teamId} skaters={skaters} currentUserId={userId} canManage={isHead} />
+    </>
+  ) : null;
 
   return (
     <Screen testID="squad-home" edges={[]} width={wide ? 'full' : 'content'}>
@@ -118,7 +123,7 @@ export function SquadScreen() {
         <View style={styles.panes}>
           <View style={[styles.stack, styles.listPaneWide]}>
             {listPane}
-            {staff}
+            {people}
           </View>
           <View style={[styles.stack, styles.sidePaneWide]}>
             {detail}
@@ -131,7 +136,7 @@ export function SquadScreen() {
           {detail}
           {listPane}
           {manage}
-          {staff}
+          {people}
         </>
       )}
     </Screen>

@@ -110,6 +110,8 @@ export function StaffList({ teamId, skaters, currentUserId, canManage }: StaffLi
               ) : (
                 section.members.map((member) => {
                   const self = member.userId === currentUserId;
+                  // Not yourself, not the head coach: the server refuses both.
+                  const removable = canManage && !self && member.role !== 'head_coach';
                   const asking = confirming === member.userId;
                   return (
                     <View key={member.userId} style={styles.row} testID={`staff-member-${member.userId}`}>
@@ -120,7 +122,7 @@ export function StaffList({ teamId, skaters, currentUserId, canManage }: StaffLi
                       <Text tone="muted" variant="caption" style={styles.email}>
                         {member.email}
                       </Text>
-                      {canManage && !self && !asking ? (
+                      {removable && !asking ? (
                         <Button
                           label="Remove from team"
                           variant="quiet"
@@ -133,7 +135,7 @@ export function StaffList({ teamId, skaters, currentUserId, canManage }: StaffLi
                           }}
                         />
                       ) : null}
-                      {canManage && !self && asking ? (
+                      {removable && asking ? (
                         <View
                           style={styles.confirm}
                           testID={`staff-confirm-${member.userId}`}

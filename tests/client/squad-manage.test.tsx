@@ -225,6 +225,8 @@ describe('skater detail (head coach)', () => {
   it('a new group: a name the team has is refused before sending; a new one is sent once', async () => {
     serve(({ body }) => ({ status: 201, body: { id: '0190a0b0-0000-7000-8000-0000000000d3', sortOrder: 3, ...(body as object) } }), true);
     renderWith(detail(anna));
+    expect(queryByTestIdWeb('squad-new-group-name')).toBeNull();
+    await fireWeb(getByTestIdWeb('squad-new-group-open'), 'onPress');
     await fireWeb(getByTestIdWeb('squad-new-group-name'), 'onChangeText', 'sprint ');
     await fireWeb(getByTestIdWeb('squad-new-group-submit'), 'onPress');
     expect(textOf(getByTestIdWeb('squad-new-group-name-error'))).toBe('“Sprint” exists already: pick another name');
@@ -235,13 +237,15 @@ describe('skater detail (head coach)', () => {
     expect(changes()).toEqual([{ method: 'POST', url: `/api/teams/${TEAM}/groups`, body: { name: 'Allround' } }]);
     await release();
     await waitFor(() => expect(bannerText('squad-new-group-done')).toContain('Group “Allround” added'));
+    // The form closes again once the group is made.
+    expect(queryByTestIdWeb('squad-new-group-name')).toBeNull();
     expect(mockRunSync).toHaveBeenCalledWith(TEAM, expect.any(Function));
   });
 
   it('a coach reads the details without any control that changes them', async () => {
     renderWith(detail(anna, false));
     expect(textOf(getByTestIdWeb('squad-detail-group'))).toBe('Group: Juniors');
-    for (const id of ['squad-detail-rename', 'squad-detail-retire', 'squad-detail-group-choice', 'squad-new-group', 'squad-detail-invite-guardian']) {
+    for (const id of ['squad-detail-rename', 'squad-detail-retire', 'squad-detail-group-choice', 'squad-new-group-open', 'squad-detail-invite-guardian']) {
       expect(queryByTestIdWeb(id)).toBeNull();
     }
   });
