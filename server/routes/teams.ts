@@ -2,18 +2,34 @@
  * Team-scoped routes. Every route checks the caller's membership and role in the team named in
  * the path, and every query is bounded by that team id, so an id from another team finds nothing.
  */
-import { Router } from 'express';
+import { Router, type Request } from 'express';
 import type { DataSource } from 'typeorm';
-import { v7 as uuidv7 } from 'uuid';
-import { invitationCreateSchema, isCoachRole, skaterCreateSchema, teamSettingsPatchSchema, type Member, type Skater as SkaterDto } from '../../shared/schemas';
+import { z } from 'zod';
+import {
+  groupCreateSchema,
+  groupUpdateSchema,
+  invitationCreateSchema,
+  isCoachRole,
+  skaterCreateSchema,
+  skaterUpdateSchema,
+  teamSettingsPatchSchema,
+  type Member,
+  type Skater as SkaterDto,
+} from '../../shared/schemas';
 import { requireTeamRole, requireUser } from '../lib/auth';
-import { conflict, notFound, parse } from '../lib/errors';
+import { notFound, parse } from '../lib/errors';
 import { Invitation, Skater, SkaterGroup } from '../entities';
 import { listCues } from '../services/cues';
-import { nextSeqs } from '../services/sync/counter';
-import { createInvitation, toInvitationDto } from '../services/invitations';
+import { createInvitation, resendInvitation, revokeInvitation, toInvitationDto } from '../services/invitations';
+import { createGroup, createSkater, removeMember, renameGroup, updateSkater } from '../services/squad';
 import { readTeamSettings, updateTeamSettings } from '../services/team-settings';
-import { z } from 'zod';
+
+/** A record id from the path: one that is not a UUID names nothing in this team (404, like an unknown one). */
+function pathId(req: Request, name: string, what: string): string {
+  const id = z.uuid().safeParse(req.params[name]);
+  if (!id.success) throw notFound(`No such ${what} in this team`);
+  return id.data;
+}
 
 const toSkaterDto = (row: Skater): SkaterDto => ({
   id: row.id,
@@ -56,24 +72,29 @@ export function teamRoutes(dataSource: DataSource) {
     res.json(toSkaterDto(row));
   });
 
+  /** A new skater profile (head coach). A name the team has already (retired skaters too) is 409. */
   router.post('/teams/:teamId/skaters', headCoach, async (req, res) => {
-    const { teamId } = req.membership!;
     const input = parse(skaterCreateSchema, req.body);
-    if (input.groupId && !(await dataSource.getRepository(SkaterGroup).existsBy({ teamId, id: input.groupId }))) {
-      throw notFound('No such group in this team');
-    }
-    const id = input.id ?? uuidv7();
-    if (await dataSource.getRepository(Skater).existsBy({ teamId, id })) throw conflict('A skater with this id exists already');
-    const row = { teamId, id, displayName: input.displayName, groupId: input.groupId ?? null, userId: null, retiredAt: null };
-    await dataSource.transaction(async (tx) => {
-      // Stamped from the team's sync counter in the same transaction, so pulls see the profile.
-      const serverSeq = await nextSeqs(tx, teamId, 1);
-      await tx.query(
-        `INSERT INTO skaters (team_id, id, display_name, group_id, user_id, server_seq) VALUES ($1, $2, $3, $4, NULL, $5)`,
-        [teamId, id, row.displayName, row.groupId, serverSeq],
-      );
-    });
-    res.status(201).json(toSkaterDto(row as Skater));
+    res.status(201).json(await createSkater(dataSource, req.membership!.teamId, input));
+  });
+
+  /** Rename, move to a group (groupId null: none) and retire or bring back (head coach). */
+  router.patch('/teams/:teamId/skaters/:skaterId', headCoach, async (req, res) => {
+    const skaterId = pathId(req, 'skaterId', 'skater');
+    const input = parse(skaterUpdateSchema, req.body);
+    res.json(await updateSkater(dataSource, req.membership!.teamId, skaterId, input));
+  });
+
+  /** A new group, after the team's last one (head coach). */
+  router.post('/teams/:teamId/groups', headCoach, async (req, res) => {
+    const input = parse(groupCreateSchema, req.body);
+    res.status(201).json(await createGroup(dataSource, req.membership!.teamId, input));
+  });
+
+  router.patch('/teams/:teamId/groups/:groupId', headCoach, async (req, res) => {
+    const groupId = pathId(req, 'groupId', 'group');
+    const input = parse(groupUpdateSchema, req.body);
+    res.json(await renameGroup(dataSource, req.membership!.teamId, groupId, input));
   });
 
   /** The cue library (archived cues included, flagged): coaches record with it; skaters read cues by it. */
@@ -109,6 +130,16 @@ export function teamRoutes(dataSource: DataSource) {
     res.json(members);
   });
 
+  /**
+   * Removes a member (head coach): not yourself, not a head coach. Every sign-in of theirs ends at
+   * once; a skater's profile stays, unlinked, and can be invited again.
+   */
+  router.delete('/teams/:teamId/members/:userId', headCoach, async (req, res) => {
+    const userId = pathId(req, 'userId', 'member');
+    await removeMember(dataSource, req.membership!.teamId, req.userId!, userId);
+    res.status(204).end();
+  });
+
   router.get('/teams/:teamId/invitations', headCoach, async (req, res) => {
     const rows = await dataSource.getRepository(Invitation).find({
       where: { teamId: req.membership!.teamId },
@@ -121,6 +152,18 @@ export function teamRoutes(dataSource: DataSource) {
   router.post('/teams/:teamId/invitations', headCoach, async (req, res) => {
     const input = parse(invitationCreateSchema, req.body);
     res.status(201).json(await createInvitation(dataSource, req.membership!.teamId, req.userId!, input));
+  });
+
+  /** Withdraws a pending invitation: its link stops working. An accepted one is 409. */
+  router.delete('/teams/:teamId/invitations/:invitationId', headCoach, async (req, res) => {
+    const invitationId = pathId(req, 'invitationId', 'invitation');
+    res.json(await revokeInvitation(dataSource, req.membership!.teamId, invitationId));
+  });
+
+  /** Sends a pending, expired or withdrawn invitation again with a new link (the old one stops working). */
+  router.post('/teams/:teamId/invitations/:invitationId/resend', headCoach, async (req, res) => {
+    const invitationId = pathId(req, 'invitationId', 'invitation');
+    res.json(await resendInvitation(dataSource, req.membership!.teamId, invitationId, req.userId!));
   });
 
   return router;

@@ -122,7 +122,7 @@ export async function applyPush(dataSource: DataSource, caller: Caller, body: Pu
       const refusedRecords = await writeRecords(runner, teamId, stamped);
       for (const [opId, key] of touched) {
         const message = refusedRecords.get(key);
-        if (message) results.set(opId, { opId, status: 'rejected', reason: 'validation', message: `The server's database refused a value: ${message}` });
+        if (message) results.set(opId, { opId, status: 'rejected', reason: 'validation', message });
       }
     }
 

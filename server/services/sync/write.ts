@@ -7,10 +7,12 @@
  * A value PostgreSQL refuses (SQLSTATE class 22 "data exception" or 23 "integrity constraint")
  * must not fail the batch: the chunk is rolled back to its savepoint and written again row by row,
  * each under its own savepoint, and the rows it still refuses are answered to push.ts, which
- * rejects the ops that changed them. Any other error (the database gone, a serialization failure)
- * is thrown and the whole batch rolls back.
+ * rejects the ops that changed them (a cue label its phase has already is said in plain words).
+ * Any other error (the database gone, a serialization failure) is thrown and the whole batch
+ * rolls back.
  */
 import type { QueryRunner } from 'typeorm';
+import { duplicateCueMessage, type Phase } from '../../../shared/cues';
 import { fieldsOf, tableSpec, type SyncTableName } from '../../../shared/sync-tables';
 import { recordKey, type RecordState } from './settle';
 
@@ -67,6 +69,28 @@ export function isDataError(error: unknown): error is Error {
   return typeof code === 'string' && (code.startsWith('22') || code.startsWith('23'));
 }
 
+/**
+ * The coach's sentence for a refused record. A cue label its phase has already (the unique index
+ * ux_cues_team_phase_label: archived cues count) names the cue it clashes with; any other refusal
+ * says what PostgreSQL said.
+ */
+async function refusalMessage(runner: QueryRunner, teamId: string, item: Stamped, error: Error): Promise<string> {
+  const constraint = (error as { driverError?: { constraint?: unknown }; constraint?: unknown }).driverError?.constraint ?? (error as { constraint?: unknown }).constraint;
+  if (item.record.table === 'cues' && constraint === 'ux_cues_team_phase_label') {
+    const { phase, label } = item.record.values as { phase: Phase; label: string };
+    // Same key as the index: NFC, lower-cased by ICU's root locale.
+    const key = (sql: string) => `lower(normalize(${sql}, NFC) COLLATE "und-x-icu")`;
+    const [taken]: { label: string; archived: boolean }[] = await runner.query(
+      `SELECT label, archived FROM cues
+        WHERE team_id = $1 AND phase = $2 AND id <> $3 AND deleted_at IS NULL AND ${key('label')} = ${key('$4::text')}
+        LIMIT 1`,
+      [teamId, phase, item.record.id, label],
+    );
+    return duplicateCueMessage({ label: taken?.label ?? label, phase, archived: taken?.archived ?? false });
+  }
+  return `The server's database refused a value: ${error.message}`;
+}
+
 const sqlStatementCache = new Map<SyncTableName, string>();
 const cachedUpsertSql = (table: SyncTableName) => {
   let sql = sqlStatementCache.get(table);
@@ -93,7 +117,7 @@ async function guarded(runner: QueryRunner, name: string, work: () => Promise<un
 
 /**
  * Writes the stamped records of every table and the ghost tombstones. Resolves to the records the
- * database refused, by `table:id`, with its message.
+ * database refused, by `table:id`, with the sentence the coach sees (refusalMessage).
  */
 export async function writeRecords(runner: QueryRunner, teamId: string, stamped: readonly Stamped[]): Promise<Map<string, string>> {
   const refused = new Map<string, string>();
@@ -116,7 +140,7 @@ export async function writeRecords(runner: QueryRunner, teamId: string, stamped:
       // Find the rows the database refuses, one at a time (only after a refusal: rare).
       for (const item of chunk) {
         const error = await guarded(runner, 'sync_row', () => runner.query(sql, upsertParams(table, teamId, [item])));
-        if (error) refused.set(recordKey(table, item.record.id), error.message);
+        if (error) refused.set(recordKey(table, item.record.id), await refusalMessage(runner, teamId, item, error));
       }
     }
   }
