@@ -10,8 +10,9 @@ const chromium = process.env.CHROMIUM_PATH ?? execSync('command -v chromium', { 
 export default defineConfig({
   testDir: 'tests/e2e',
   outputDir: 'tests/e2e/artifacts/results',
-  timeout: 60_000,
-  expect: { timeout: 10_000 },
+  // Generous: a 2-core machine running the whole suite is slow to open a fresh browser's device database.
+  timeout: 120_000,
+  expect: { timeout: 20_000 },
   fullyParallel: false,
   workers: 1,
   retries: 0,
