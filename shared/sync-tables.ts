@@ -9,16 +9,35 @@
  * - the server's pull: the column list per table and the role filter (server/services/sync/pull.ts);
  * - the device: how a field is stored in its SQLite column (sync/fields.ts).
  *
- * A new synced table (the clock's runs and laps, review notes, media) is one entry here plus a
- * server migration and a device migration creating its columns.
+ * A new synced table (review notes, media) is one entry here plus a server migration and a
+ * device migration creating its columns. The clock's runs, crossings and targets were added so.
  */
 import { z, type ZodType } from 'zod';
 import { cueLabelSchema, phaseSchema } from './cues';
 import { daySchema, markSchema, noteSchema } from './schemas/board';
+import {
+  atMsSchema,
+  distanceProblem,
+  openerMsSchema,
+  runDistanceSchema,
+  runLaneSchema,
+  runStatusSchema,
+  sharesPctSchema,
+  startOffsetMsSchema,
+  stopReasonSchema,
+  targetDistanceSchema,
+  targetIdFor,
+  targetMsSchema,
+  targetPlanProblem,
+  targetPlanSchema,
+  trackSchema,
+  type TargetPlan,
+  type Track,
+} from './schemas/clock';
 import { instantSchema, safeText } from './schemas/values';
 
 /** The protocol names of the synced tables. */
-export type SyncTableName = 'observations' | 'sessions' | 'cues' | 'skaters' | 'groups';
+export type SyncTableName = 'observations' | 'sessions' | 'cues' | 'skaters' | 'groups' | 'runs' | 'crossings' | 'targets';
 
 /** How the server stores a field (the unnest array type) and how the device stores it. */
 export type ServerType = 'uuid' | 'text' | 'bool' | 'int' | 'timestamptz' | 'jsonb';
@@ -72,6 +91,27 @@ export interface SyncTable {
   /** The field of the record naming the skater it belongs to (for skaters' own writes and reads). */
   ownerField?: string;
   /**
+   * The reference field naming the record this one belongs to (a crossing's run). Who may create,
+   * change or delete the record is decided on that parent: with `changeBy: 'author_or_head_coach'`,
+   * the parent's author and the head coach, for a new record too (a crossing added to someone
+   * else's run changes that run). The push loads the parent of every record it touches.
+   */
+  parentField?: string;
+  /**
+   * How records are deleted. 'tombstone': a device hides the row (its `deleted` column) until the
+   * server's tombstone arrives, and a record that never left the device goes without a trace.
+   * 'never': the table has no deletes (its ids are derived from what the record is about, so a
+   * tombstone would block that id for good); the server refuses a delete op. Absent: the server
+   * accepts deletes and the device drops the row when the tombstone arrives.
+   */
+  deletes?: 'tombstone' | 'never';
+  /**
+   * A check across fields, on the record as an upsert would leave it (its current values with the
+   * op's on top, whatever the clocks later decide): the reason it is refused, or null. Runs on the
+   * server per op (a validation rejection) and in the device store before anything is written.
+   */
+  check?: (record: Record<string, unknown>, context: { id: string; teamId: string }) => string | null;
+  /**
    * Which rows a skater or guardian pulls: the whole team's, or an SQL condition in which
    * `$viewer` is their skater's id (for example only that skater's own records).
    */
@@ -81,6 +121,30 @@ export interface SyncTable {
 
 const uuid = (name: string) => z.uuid({ error: `${name} must be a UUID` });
 
+/** A run's distance must fit its track (free laps, 0, always does). */
+function runCheck(run: Record<string, unknown>): string | null {
+  if (typeof run.distanceM !== 'number' || (run.track !== 'long' && run.track !== 'short')) return null;
+  return distanceProblem(run.distanceM, run.track);
+}
+
+/** A target's id is its identity (team, skater, track, distance), and its plan fits the distance. */
+function targetCheck(target: Record<string, unknown>, { id, teamId }: { id: string; teamId: string }): string | null {
+  const { skaterId, track, distanceM, targetMs, plan } = target;
+  if (typeof skaterId !== 'string' || (track !== 'long' && track !== 'short') || typeof distanceM !== 'number') return null;
+  if (id !== targetIdFor(teamId, skaterId, track, distanceM)) {
+    return 'A target\'s id must be derived from its team, skater, track and distance (targetIdFor)';
+  }
+  if (typeof targetMs !== 'number' || (plan !== 'even' && plan !== 'shares')) return null;
+  return targetPlanProblem({
+    distanceM,
+    track: track as Track,
+    targetMs,
+    plan: plan as TargetPlan,
+    openerMs: (target.openerMs as number | null | undefined) ?? null,
+    sharesPct: (target.sharesPct as number[] | null | undefined) ?? null,
+  });
+}
+
 export const syncTables: Record<SyncTableName, SyncTable> = {
   observations: {
     serverTable: 'observations',
@@ -88,6 +152,7 @@ export const syncTables: Record<SyncTableName, SyncTable> = {
     // A coach changes their own notes; the head coach any (PRODUCT.md, "Look and feel").
     changeBy: 'author_or_head_coach',
     ownerField: 'skaterId',
+    deletes: 'tombstone',
     viewerRows: { where: 'skater_id = $viewer' },
     fields: {
       sessionId: { column: 'session_id', server: 'uuid', device: 'text', rule: uuid('sessionId'), required: true, immutable: true, ref: 'sessions' },
@@ -158,6 +223,73 @@ export const syncTables: Record<SyncTableName, SyncTable> = {
     fields: {
       name: { column: 'name', server: 'text', device: 'text' },
       sortOrder: { column: 'sort_order', server: 'int', device: 'int' },
+    },
+  },
+  // The clock (issue #9). A run is one skater's timed effort; a pair is two runs sharing heatId.
+  runs: {
+    serverTable: 'runs',
+    pushBy: 'coach',
+    // Two coaches timing the two sides each write their own runs; the head coach may fix any.
+    changeBy: 'author_or_head_coach',
+    ownerField: 'skaterId',
+    viewerRows: { where: 'skater_id = $viewer' },
+    deletes: 'tombstone',
+    check: runCheck,
+    fields: {
+      // Groups the runs started together; not a reference (a heat is no record of its own).
+      heatId: { column: 'heat_id', server: 'uuid', device: 'text', rule: uuid('heatId'), required: true, immutable: true },
+      skaterId: { column: 'skater_id', server: 'uuid', device: 'text', rule: uuid('skaterId'), required: true, immutable: true, ref: 'skaters' },
+      day: { column: 'day', server: 'text', device: 'text', rule: daySchema, required: true, immutable: true },
+      distanceM: { column: 'distance_m', server: 'int', device: 'int', rule: runDistanceSchema, required: true },
+      track: { column: 'track', server: 'text', device: 'text', rule: trackSchema, required: true },
+      lane: { column: 'lane', server: 'text', device: 'text', rule: runLaneSchema, required: true },
+      startedAt: { column: 'started_at', server: 'timestamptz', device: 'text', rule: instantSchema('startedAt'), required: true, immutable: true, instant: true },
+      startOffsetMs: { column: 'start_offset_ms', server: 'int', device: 'int', rule: startOffsetMsSchema, initial: 0 },
+      targetMs: { column: 'target_ms', server: 'int', device: 'int', rule: targetMsSchema.nullable(), initial: null },
+      status: { column: 'status', server: 'text', device: 'text', rule: runStatusSchema, required: true },
+      stopReason: { column: 'stop_reason', server: 'text', device: 'text', rule: stopReasonSchema, initial: '' },
+      note: { column: 'note', server: 'text', device: 'text', rule: noteSchema, initial: '' },
+      createdBy: { column: 'created_by', server: 'uuid', device: 'text', rule: uuid('createdBy'), immutable: true, author: true },
+      authorName: { column: 'author_name', server: 'text', device: 'text', rule: safeText('authorName', 200), initial: '', immutable: true, authorName: true },
+      createdAt: { column: 'created_at', server: 'timestamptz', device: 'text', rule: instantSchema('createdAt'), required: true, immutable: true, instant: true },
+    },
+  },
+  // One tap on a lane button: the skater crossed the line, atMs after the start signal.
+  crossings: {
+    serverTable: 'crossings',
+    pushBy: 'coach',
+    // Part of its run: the run's author and the head coach add, change and delete them.
+    changeBy: 'author_or_head_coach',
+    parentField: 'runId',
+    viewerRows: { where: 'run_id IN (SELECT r.id FROM runs r WHERE r.team_id = $1 AND r.skater_id = $viewer)' },
+    deletes: 'tombstone',
+    fields: {
+      runId: { column: 'run_id', server: 'uuid', device: 'text', rule: uuid('runId'), required: true, immutable: true, ref: 'runs' },
+      atMs: { column: 'at_ms', server: 'int', device: 'int', rule: atMsSchema, required: true },
+      handTimed: { column: 'hand_timed', server: 'bool', device: 'bool', rule: z.boolean({ error: 'handTimed must be true or false' }), initial: false },
+      createdAt: { column: 'created_at', server: 'timestamptz', device: 'text', rule: instantSchema('createdAt'), required: true, immutable: true, instant: true },
+    },
+  },
+  // A skater's target for a distance and its pace plan. The id is targetIdFor(team, skater, track,
+  // distance): two coaches setting it offline write one record, merged per field.
+  targets: {
+    serverTable: 'targets',
+    pushBy: 'coach',
+    ownerField: 'skaterId',
+    viewerRows: { where: 'skater_id = $viewer' },
+    deletes: 'never',
+    check: targetCheck,
+    fields: {
+      skaterId: { column: 'skater_id', server: 'uuid', device: 'text', rule: uuid('skaterId'), required: true, immutable: true, ref: 'skaters' },
+      distanceM: { column: 'distance_m', server: 'int', device: 'int', rule: targetDistanceSchema, required: true, immutable: true },
+      track: { column: 'track', server: 'text', device: 'text', rule: trackSchema, required: true, immutable: true },
+      targetMs: { column: 'target_ms', server: 'int', device: 'int', rule: targetMsSchema, required: true },
+      plan: { column: 'plan', server: 'text', device: 'text', rule: targetPlanSchema, initial: 'even' },
+      openerMs: { column: 'opener_ms', server: 'int', device: 'int', rule: openerMsSchema.nullable(), initial: null },
+      sharesPct: { column: 'shares_pct', server: 'jsonb', device: 'json', rule: sharesPctSchema.nullable(), initial: null },
+      note: { column: 'note', server: 'text', device: 'text', rule: noteSchema, initial: '' },
+      // The coach who set it last (a push carrying another user is refused).
+      updatedBy: { column: 'updated_by', server: 'uuid', device: 'text', rule: uuid('updatedBy'), author: true },
     },
   },
 };

@@ -22,6 +22,7 @@ import type { SqlDriver, SqlValue } from './driver';
 import { encodeFields, isPullTable, PULL_TABLES } from './fields';
 import { readShadow, writeShadow } from './shadow';
 import type { DeviceStore, SyncKeys } from './store';
+import { hidesDeleted } from './outbox';
 import type { OwnerFilter } from './store-context';
 
 export const APPLY_ROWS_PER_STATEMENT = 1000;
@@ -90,7 +91,7 @@ async function upsertRows(db: SqlDriver, table: PullTable, teamId: string, colum
 async function upsertMaskedRow(db: SqlDriver, table: PullTable, teamId: string, row: Row) {
   const local = row.masked!;
   const inserted = encodeFields(table, { ...row.fields, ...Object.fromEntries(local.values) });
-  const extra = local.deleting && table === 'observations' ? ['deleted'] : [];
+  const extra = local.deleting && hidesDeleted(table) ? ['deleted'] : [];
   const updates = [...row.columns.filter((_, i) => !local.values.has(row.names[i])).map((c) => `${c} = excluded.${c}`), 'synced = 1'];
   await db.run(
     `INSERT INTO ${table} (id, team_id, ${[...inserted.columns, ...extra].map((c) => `${c}, `).join('')}synced)
@@ -143,6 +144,8 @@ export async function beginFullResync(store: DeviceStore, teamId: string, run?: 
 async function sweepUnconfirmed(db: SqlDriver, teamId: string, keys: SyncKeys, mine: OwnerFilter) {
   const keep: Partial<Record<PullTable, string>> = {
     sessions: `OR id IN (SELECT session_id FROM observations WHERE id IN (SELECT record_id FROM outbox WHERE tbl = 'observations'${mine.sql}))`,
+    // A run whose crossings still wait to be sent stays with them.
+    runs: `OR id IN (SELECT run_id FROM crossings WHERE id IN (SELECT record_id FROM outbox WHERE tbl = 'crossings'${mine.sql}))`,
   };
   for (const table of PULL_TABLES) {
     await db.run(

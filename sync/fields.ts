@@ -16,7 +16,8 @@ const encoders: Record<DeviceType, Encode> = {
   text: (v) => (v === null || v === undefined ? null : typeof v === 'string' ? v : String(v)),
   int: (v) => (v === null || v === undefined ? null : Math.trunc(Number(v))),
   bool: (v) => (v ? 1 : 0),
-  json: (v) => JSON.stringify(v ?? []),
+  // A missing list is an empty one; null stays null (a target without section shares).
+  json: (v) => (v === undefined ? '[]' : v === null ? null : JSON.stringify(v)),
 };
 
 export interface Column {
@@ -56,7 +57,7 @@ const decoders: Record<DeviceType, Decode> = {
   text: (v) => v,
   int: (v) => (v === null ? null : Number(v)),
   bool: (v) => v === 1,
-  json: (v) => (v === null ? [] : JSON.parse(String(v))),
+  json: (v) => (v === null ? null : JSON.parse(String(v))),
 };
 
 const TABLE_DECODERS = Object.fromEntries(

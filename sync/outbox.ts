@@ -8,7 +8,7 @@
  * All functions run inside the caller's transaction unless they open one through `ctx.tx`.
  */
 import { v7 as uuidv7 } from 'uuid';
-import { fieldsOf, pushableTables } from '../shared/sync-tables';
+import { fieldsOf, isSyncTableName, pushableTables, tableSpec } from '../shared/sync-tables';
 import type { SqlDriver } from './driver';
 import { insertRecord, writeFields } from './fields';
 import { captureShadow, releaseDiscarded } from './shadow';
@@ -68,6 +68,12 @@ export const toOutboxEntry = (r: OutboxRow): OutboxEntry => ({
   sentAt: r.sent_at,
   createdAt: r.created_at,
 });
+
+/**
+ * Tables whose device rows stay, hidden (`deleted = 1`), while their delete waits to be sent
+ * (shared/sync-tables.ts `deletes: 'tombstone'`: observations, runs, crossings).
+ */
+export const hidesDeleted = (table: string): boolean => isSyncTableName(table) && tableSpec(table).deletes === 'tombstone';
 
 export const ownerFilter = (owner: string | undefined, column = 'user_id'): OwnerFilter =>
   owner === undefined ? { sql: '', params: [] } : { sql: ` AND ${column} = ?`, params: [owner] };
@@ -154,7 +160,7 @@ export async function pendingByTable(ctx: StoreContext, teamId?: string): Promis
     `SELECT tbl, count(DISTINCT record_id) AS n FROM outbox WHERE status = 'pending'${team.sql}${mine.sql} GROUP BY tbl`,
     [...team.params, ...mine.params],
   );
-  const counts: Record<SyncedTable, number> = { observations: 0, sessions: 0, cues: 0 };
+  const counts: Record<SyncedTable, number> = { observations: 0, sessions: 0, cues: 0, runs: 0, crossings: 0, targets: 0 };
   for (const r of rows) counts[r.tbl] = r.n;
   return counts;
 }
@@ -216,7 +222,7 @@ export function discardRejected(ctx: StoreContext, opId: string): Promise<void> 
         `SELECT count(*) AS n FROM outbox WHERE tbl = ? AND record_id = ? AND kind = 'delete'${own.sql}`,
         [entry.table, entry.recordId, ...own.params],
       );
-      if (n === 0 && entry.table === 'observations') await db.run(`UPDATE observations SET deleted = 0 WHERE id = ?`, [entry.recordId]);
+      if (n === 0 && hidesDeleted(entry.table)) await db.run(`UPDATE ${entry.table} SET deleted = 0 WHERE id = ?`, [entry.recordId]);
       return;
     }
     await releaseDiscarded(db, entry.table, entry.recordId, { seq: entry.seq, fields: entry.fields }, entry.userId);
@@ -242,7 +248,7 @@ export async function replayOwnOutbox(db: SqlDriver, userId: string): Promise<vo
   const rows = await db.all<OutboxRow>(`SELECT * FROM outbox WHERE user_id = ? ORDER BY seq`, [userId]);
   for (const entry of rows.map(toOutboxEntry)) {
     if (entry.kind === 'delete') {
-      if (entry.table === 'observations') await db.run(`UPDATE observations SET deleted = 1 WHERE id = ?`, [entry.recordId]);
+      if (hidesDeleted(entry.table)) await db.run(`UPDATE ${entry.table} SET deleted = 1 WHERE id = ?`, [entry.recordId]);
       continue;
     }
     const [held] = await db.all<{ id: string }>(`SELECT id FROM ${entry.table} WHERE id = ?`, [entry.recordId]);

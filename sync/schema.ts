@@ -89,6 +89,36 @@ export const deviceMigrations: readonly string[] = [
   `
   ALTER TABLE skaters ADD COLUMN retired INTEGER NOT NULL DEFAULT 0;
   `,
+  // 5: the clock (shared/sync-tables.ts runs, crossings, targets). Runs and crossings keep a
+  // hidden row (`deleted`) until the server's tombstone arrives, like observations; targets are
+  // never deleted (one id per skater, track and distance). No CHECKs: the store validates what a
+  // coach enters, and a page the server sends (a newer server's value) must never fail to apply.
+  // A crossing is written on every tap of a lane button during a race: one row, one index.
+  `
+  CREATE TABLE runs (
+    id TEXT PRIMARY KEY, team_id TEXT NOT NULL, heat_id TEXT NOT NULL, skater_id TEXT NOT NULL, day TEXT NOT NULL,
+    distance_m INTEGER NOT NULL, track TEXT NOT NULL, lane TEXT NOT NULL, started_at TEXT NOT NULL,
+    start_offset_ms INTEGER NOT NULL DEFAULT 0, target_ms INTEGER, status TEXT NOT NULL, stop_reason TEXT NOT NULL DEFAULT '',
+    note TEXT NOT NULL DEFAULT '', created_by TEXT NOT NULL, author_name TEXT NOT NULL DEFAULT '', created_at TEXT NOT NULL,
+    deleted INTEGER NOT NULL DEFAULT 0, hlc TEXT NOT NULL DEFAULT '{}', synced INTEGER NOT NULL DEFAULT 0
+  );
+  CREATE INDEX ix_runs_team_day ON runs (team_id, day, started_at);
+  CREATE INDEX ix_runs_skater_day ON runs (team_id, skater_id, day);
+  CREATE INDEX ix_runs_team_status ON runs (team_id, status);
+  CREATE TABLE crossings (
+    id TEXT PRIMARY KEY, team_id TEXT NOT NULL, run_id TEXT NOT NULL, at_ms INTEGER NOT NULL,
+    hand_timed INTEGER NOT NULL DEFAULT 0, created_at TEXT NOT NULL,
+    deleted INTEGER NOT NULL DEFAULT 0, hlc TEXT NOT NULL DEFAULT '{}', synced INTEGER NOT NULL DEFAULT 0
+  );
+  CREATE INDEX ix_crossings_run ON crossings (run_id, at_ms);
+  CREATE TABLE targets (
+    id TEXT PRIMARY KEY, team_id TEXT NOT NULL, skater_id TEXT NOT NULL, distance_m INTEGER NOT NULL,
+    track TEXT NOT NULL, target_ms INTEGER NOT NULL, plan TEXT NOT NULL DEFAULT 'even', opener_ms INTEGER, shares_pct TEXT,
+    note TEXT NOT NULL DEFAULT '', updated_by TEXT NOT NULL DEFAULT '',
+    hlc TEXT NOT NULL DEFAULT '{}', synced INTEGER NOT NULL DEFAULT 0
+  );
+  CREATE INDEX ix_targets_skater ON targets (team_id, skater_id, track, distance_m);
+  `,
 ];
 
 export const DEVICE_SCHEMA_VERSION = deviceMigrations.length;

@@ -11,7 +11,7 @@ import type { SqlDriver, SqlValue } from './driver';
 export class StoreError extends Error {}
 
 /** The tables the device changes through the outbox. */
-export type SyncedTable = 'observations' | 'sessions' | 'cues';
+export type SyncedTable = 'observations' | 'sessions' | 'cues' | 'runs' | 'crossings' | 'targets';
 
 /** One clock value per changed field (a delete's under "deleted"). */
 export type FieldClocks = Record<string, string>;

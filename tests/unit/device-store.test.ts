@@ -60,7 +60,7 @@ describe('DeviceStore', () => {
     expect(ops[0].fields).toMatchObject({ day: session.day, focusCueIds: [] });
     // Starting values carry the oldest clock: any coach's real edit of the session wins over them.
     expect(decodeHlc(ops[0].hlc.title).wall).toBe(0);
-    expect(await store.pendingByTable()).toEqual({ observations: 2, sessions: 1, cues: 0 });
+    expect(await store.pendingByTable()).toEqual({ observations: 2, sessions: 1, cues: 0, runs: 0, crossings: 0, targets: 0 });
   });
 
   it('writes one observation and one outbox entry per selected skater (a group cue)', async () => {
@@ -153,7 +153,7 @@ describe('DeviceStore', () => {
     expect(await store.pendingCount(TEAM)).toBe(4); // three entries for the note, one for the session
     expect(await store.pendingRecordCount(TEAM)).toBe(2);
     expect(await store.pendingRecordCount()).toBe(2);
-    expect(await store.pendingByTable(TEAM)).toEqual({ observations: 1, sessions: 1, cues: 0 });
+    expect(await store.pendingByTable(TEAM)).toEqual({ observations: 1, sessions: 1, cues: 0, runs: 0, crossings: 0, targets: 0 });
     expect(await store.pendingRecordCount('0193a000-0000-7000-8000-00000000bbbb')).toBe(0);
   });
 

@@ -109,7 +109,7 @@ describe('a device shared by a coach and a skater in turn', () => {
     expect(await store.rejectedCount(TEAM)).toBe(0);
     expect(await store.listRejected(TEAM)).toEqual([]);
     expect(await store.listOutbox()).toEqual([]);
-    expect(await store.pendingByTable()).toEqual({ observations: 0, sessions: 0, cues: 0 });
+    expect(await store.pendingByTable()).toEqual({ observations: 0, sessions: 0, cues: 0, runs: 0, crossings: 0, targets: 0 });
     await expect(store.retryRejected(rejected.opId)).rejects.toBeInstanceOf(StoreError);
     await expect(store.discardRejected(rejected.opId)).rejects.toBeInstanceOf(StoreError);
 

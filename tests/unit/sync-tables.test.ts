@@ -31,7 +31,7 @@ describe('synced tables on the device', () => {
   });
 
   it('pushable tables describe what a new record needs and who may push', () => {
-    expect(pushableTables.sort()).toEqual(['cues', 'observations', 'sessions']);
+    expect([...pushableTables].sort()).toEqual(['crossings', 'cues', 'observations', 'runs', 'sessions', 'targets']);
     for (const table of pushableTables) {
       const fields = fieldsOf(table);
       expect(fields.some(([, f]) => f.required)).toBe(true);

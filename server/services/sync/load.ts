@@ -1,8 +1,9 @@
 /**
  * Loads what a push batch touches (Push.3): the records its ops name and the records their
  * reference fields point at, one query per table, built from shared/sync-tables.ts; the deletes
- * remembered for ids the server never had (sync_tombstones); and the live ids of pull-only tables
- * that ops point at (skaters).
+ * remembered for ids the server never had (sync_tombstones); the live ids of pull-only tables
+ * that ops point at (skaters); and the parents of the records touched (a crossing's run), whose
+ * author decides who may change them.
  */
 import type { QueryRunner } from 'typeorm';
 import type { Op } from '../../../shared/schemas/sync';
@@ -24,6 +25,27 @@ export function loadSql(table: SyncTableName): string {
     .map(([, f]) => f.column);
   return `SELECT id, ${columns.join(', ')}, field_hlc, deleted_at, deleted_hlc
             FROM ${tableSpec(table).serverTable} WHERE team_id = $1 AND id = ANY($2::uuid[])`;
+}
+
+/** Loads records of a pushable table by id into the batch state (tombstones included). */
+async function loadRecords(runner: QueryRunner, teamId: string, table: SyncTableName, wanted: Set<string>, state: BatchState): Promise<void> {
+  const found = await rows<Record<string, unknown> & { id: string }>(runner, loadSql(table), [teamId, [...wanted]]);
+  for (const r of found) {
+    const values: Record<string, unknown> = {};
+    for (const [name, f] of fieldsOf(table)) {
+      if (!f.rule) continue;
+      const raw = r[f.column];
+      values[name] = f.server === 'timestamptz' ? iso(raw as Date | null) : raw;
+    }
+    state.records.set(recordKey(table, r.id), {
+      ...emptyRecord(table, r.id),
+      exists: true,
+      values,
+      fieldHlc: r.field_hlc as Record<string, string>,
+      deletedAt: iso(r.deleted_at as Date | null),
+      deletedHlc: r.deleted_hlc as string | null,
+    });
+  }
 }
 
 export async function loadBatchState(runner: QueryRunner, teamId: string, ops: readonly Op[]): Promise<BatchState> {
@@ -54,24 +76,20 @@ export async function loadBatchState(runner: QueryRunner, teamId: string, ops: r
       state.live.set(table, new Set(found.map((r) => r.id)));
       continue;
     }
-    const found = await rows<Record<string, unknown> & { id: string }>(runner, loadSql(table), [teamId, [...wanted]]);
-    for (const r of found) {
-      const values: Record<string, unknown> = {};
-      for (const [name, f] of fieldsOf(table)) {
-        if (!f.rule) continue;
-        const raw = r[f.column];
-        values[name] = f.server === 'timestamptz' ? iso(raw as Date | null) : raw;
-      }
-      state.records.set(recordKey(table, r.id), {
-        ...emptyRecord(table, r.id),
-        exists: true,
-        values,
-        fieldHlc: r.field_hlc as Record<string, string>,
-        deletedAt: iso(r.deleted_at as Date | null),
-        deletedHlc: r.deleted_hlc as string | null,
-      });
-    }
+    await loadRecords(runner, teamId, table, wanted, state);
   }
+
+  // Parents decide who may change a record (a crossing's run): load those no op named.
+  const parents = new Map<SyncTableName, Set<string>>();
+  for (const record of state.records.values()) {
+    const parentField = tableSpec(record.table).parentField;
+    const parentTable = parentField ? fieldSpec(record.table, parentField)?.ref : undefined;
+    const parentId = parentField ? record.values[parentField] : undefined;
+    if (!parentTable || !isUuid(parentId) || state.records.has(recordKey(parentTable, parentId))) continue;
+    if (!parents.has(parentTable)) parents.set(parentTable, new Set());
+    parents.get(parentTable)!.add(parentId);
+  }
+  for (const [table, wanted] of parents) await loadRecords(runner, teamId, table, wanted, state);
 
   // Deletes that arrived before the server ever had the record.
   const missing: string[] = [];

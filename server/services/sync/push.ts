@@ -110,7 +110,7 @@ export async function applyPush(dataSource: DataSource, caller: Caller, body: Pu
     const { results, touched } = settleBatch(
       ops,
       state,
-      { caller, now, teamCreatedAt: await createdAtOf(runner, teamId), maxLeadMs: MAX_CLOCK_LEAD_MS },
+      { caller, teamId, now, teamCreatedAt: await createdAtOf(runner, teamId), maxLeadMs: MAX_CLOCK_LEAD_MS },
       refused,
     );
 

@@ -54,6 +54,8 @@ export interface BatchState {
 
 export interface SettleContext {
   caller: Caller;
+  /** The team the batch writes into (ids derived from it, such as a target's, are checked). */
+  teamId?: string;
   /** The server's time (ms) for this batch. */
   now: number;
   /** When the team was created (ms): no instant of its records is earlier. */
@@ -92,6 +94,26 @@ function recordOf(state: BatchState, table: SyncTableName, id: string): RecordSt
     state.records.set(key, record);
   }
   return record;
+}
+
+const singular = (table: string) => table.replace(/s$/, '');
+
+/** The field holding a table's author (the signed-in user who made the record), if any. */
+const authorFieldOf = (table: SyncTableName) => Object.entries(tableSpec(table).fields).find(([, f]) => f.author)?.[0];
+
+/**
+ * The record whose author may change this one (shared/sync-tables.ts `changeBy`): the record
+ * itself once it exists, or, for a table with a `parentField`, its parent (named by the record,
+ * or by the op that creates it), when the batch knows it. Null: nobody's yet (a new record).
+ */
+function authorityOf(op: Op, record: RecordState, state: BatchState): RecordState | null {
+  const parentField = tableSpec(op.table).parentField;
+  if (!parentField) return record.exists ? record : null;
+  const parentId = record.exists ? record.values[parentField] : own(op.fields, parentField) ? op.fields[parentField] : undefined;
+  const parentTable = fieldSpec(op.table, parentField)?.ref;
+  if (typeof parentId !== 'string' || !parentTable) return null;
+  const parent = state.records.get(recordKey(parentTable, parentId));
+  return parent?.exists ? parent : null;
 }
 
 function isLive(state: BatchState, table: SyncTableName, id: string): boolean {
@@ -143,13 +165,26 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
     const skaterField = fieldNames.find((f) => fieldSpec(op.table, f)?.writer === 'own_skater');
     if (skaterField) return rejected(op.opId, 'permission', `Only the skater sets ${skaterField}`);
     // A record that exists belongs to its author and the head coach, where the table says so. A
-    // tombstone counts as existing (a delete of it is harmless, but it must answer the same).
-    if (spec.changeBy === 'author_or_head_coach' && record.exists && caller.role !== 'head_coach') {
-      const authorField = Object.entries(spec.fields).find(([, f]) => f.author)?.[0];
-      if (authorField && record.values[authorField] !== caller.userId) {
-        return rejected(op.opId, 'permission', `Only its author or the head coach may ${op.kind === 'delete' ? 'delete' : 'change'} this ${op.table.replace(/s$/, '')}`);
+    // tombstone counts as existing (a delete of it is harmless, but it must answer the same). A
+    // record that is part of another (a crossing of a run) belongs to that one's author, from
+    // its creation on.
+    if (spec.changeBy === 'author_or_head_coach' && caller.role !== 'head_coach') {
+      const authority = authorityOf(op, record, state);
+      const authorField = authority ? authorFieldOf(authority.table) : undefined;
+      if (authority && authorField && authority.values[authorField] !== caller.userId) {
+        const verb = op.kind === 'delete' ? 'delete' : record.exists ? 'change' : 'add';
+        return rejected(
+          op.opId,
+          'permission',
+          authority === record
+            ? `Only its author or the head coach may ${verb} this ${singular(op.table)}`
+            : `Only the coach who timed this ${singular(authority.table)} or the head coach may ${verb} its ${op.table}`,
+        );
       }
     }
+  }
+  if (op.kind === 'delete' && spec.deletes === 'never') {
+    return rejected(op.opId, 'validation', `${op.table} are never deleted (change them instead)`);
   }
 
   // Push.3b: the op's shape, its values and its clock values.
@@ -212,7 +247,7 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
   if (record.deletedAt) return applied(op.opId, 'The record was deleted; the change was dropped');
 
   if (creating) {
-    const authorField = Object.entries(spec.fields).find(([, f]) => f.author)?.[0];
+    const authorField = authorFieldOf(op.table);
     const missing = Object.entries(spec.fields)
       .filter(([name, f]) => f.required && !own(values, name))
       .map(([name]) => name);
@@ -221,6 +256,8 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
     }
     const initial: Record<string, unknown> = {};
     for (const [name, f] of Object.entries(spec.fields)) if (f.rule && f.initial !== undefined) initial[name] = f.initial;
+    const problem = spec.check?.({ ...initial, ...values }, { id: op.recordId, teamId: context.teamId ?? '' });
+    if (problem) return rejected(op.opId, 'validation', problem);
     record.exists = true;
     const nameField = Object.entries(spec.fields).find(([, f]) => f.authorName)?.[0];
     record.values = {
@@ -233,6 +270,14 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
     record.fieldHlc = Object.fromEntries(Object.keys(values).map((field) => [field, op.hlc[field]]));
     record.dirty = true;
     return applied(op.opId);
+  }
+
+  // Checked on the record as this op would leave it (fixed fields keep their values), whatever
+  // the clocks decide below: an op that would break the record is refused as a whole.
+  if (spec.check) {
+    const changing = Object.entries(values).filter(([field]) => !fieldSpec(op.table, field)!.immutable);
+    const problem = spec.check({ ...record.values, ...Object.fromEntries(changing) }, { id: op.recordId, teamId: context.teamId ?? '' });
+    if (problem) return rejected(op.opId, 'validation', problem);
   }
 
   // Newest clock wins, field by field (encoded HLCs compare as strings).

@@ -13,7 +13,7 @@
  */
 import type { QueryRunner } from 'typeorm';
 import { duplicateCueMessage, type Phase } from '../../../shared/cues';
-import { fieldsOf, tableSpec, type SyncTableName } from '../../../shared/sync-tables';
+import { fieldsOf, pushableTables, tableSpec, type SyncTableName } from '../../../shared/sync-tables';
 import { recordKey, type RecordState } from './settle';
 
 /** Rows per bulk statement. Parameters are per column (arrays), so this only bounds statement size. */
@@ -131,7 +131,11 @@ export async function writeRecords(runner: QueryRunner, teamId: string, stamped:
     if (!byTable.has(item.record.table)) byTable.set(item.record.table, []);
     byTable.get(item.record.table)!.push(item);
   }
-  for (const [table, items] of byTable) {
+  // Referenced tables first (the description's order: a crossing's run is written before it,
+  // so its foreign key finds the run even when both are new in this batch).
+  const order = [...byTable.keys()].sort((a, b) => pushableTables.indexOf(a) - pushableTables.indexOf(b));
+  for (const table of order) {
+    const items = byTable.get(table)!;
     const sql = cachedUpsertSql(table);
     for (let i = 0; i < items.length; i += WRITE_CHUNK) {
       const chunk = items.slice(i, i + WRITE_CHUNK);
