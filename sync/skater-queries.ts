@@ -1,13 +1,16 @@
 /**
  * The skater's view (a skater or their guardian, on their own device): one skater's notes of a
- * rink day with each cue's text and phase, and the recent days that have notes. Reads only; the
- * one thing a skater writes, the acknowledgement, is an observation edit (sync/tables/observations.ts).
+ * rink day with each cue's text and phase, the recent days that have notes, and the runs timed
+ * on a day with their crossings. Reads only; the one thing a skater writes, the acknowledgement,
+ * is an observation edit (sync/tables/observations.ts).
  */
 import type { Phase } from '../shared/cues';
 import type { Mark } from '../shared/schemas';
+import type { RunWithCrossings } from '../shared/schemas/clock';
 import type { SqlValue } from './driver';
-import { decodeRow } from './fields';
+import { decodeRow, selectColumns } from './fields';
 import type { StoreContext } from './store-context';
+import { withCrossings } from './tables/runs';
 
 /** A note as the skater (or guardian) reads it: the observation with its cue's text and phase. */
 export interface SkaterNote {
@@ -76,4 +79,18 @@ export async function daysForSkater(ctx: StoreContext, teamId: string, skaterId:
     [teamId, skaterId, Math.max(1, Math.trunc(limit))],
   );
   return rows.map((r) => ({ day: r.day, count: r.total, unacknowledged: r.open }));
+}
+
+/**
+ * One skater's runs of one rink day, in the order they were timed, each with its crossings
+ * (sorted by time). On a skater's or guardian's device the pull brings only that skater's runs
+ * and crossings; the filter by skater keeps a coach's device (which holds the team's) right too.
+ */
+export async function runsForSkater(ctx: StoreContext, teamId: string, skaterId: string, day: string): Promise<RunWithCrossings[]> {
+  const rows = await ctx.db.all<Record<string, SqlValue>>(
+    `SELECT id, team_id, ${selectColumns('runs')} FROM runs
+      WHERE team_id = ? AND skater_id = ? AND day = ? AND deleted = 0 ORDER BY started_at, id`,
+    [teamId, skaterId, day],
+  );
+  return withCrossings(ctx, rows);
 }

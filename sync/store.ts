@@ -9,12 +9,14 @@
  * This class is the facade: it owns the connection's serial queue, the device clock, and whose
  * rows the device holds (open, switchUser, signOut, meta and cursors), and hands a small context
  * to the modules that do the work: sync/outbox.ts, sync/clock-correction.ts, one module per table
- * in sync/tables/, and sync/skater-queries.ts.
+ * in sync/tables/ (the clock's runs and crossings in runs.ts, targets in targets.ts), and
+ * sync/skater-queries.ts.
  */
 import { v7 as uuidv7 } from 'uuid';
 import type { Phase } from '../shared/cues';
 import { HybridClock } from '../shared/hlc';
 import type { BoardSession, BoardSessionPatch, Cue, Group, Observation, ObservationPatch, Role, Skater } from '../shared/schemas';
+import type { Crossing, CrossingPatch, Run, RunPatch, RunWithCrossings, Target, TargetInput } from '../shared/schemas/clock';
 import { correctClock } from './clock-correction';
 import { SerialQueue, transaction, type SqlDriver } from './driver';
 import * as outbox from './outbox';
@@ -23,13 +25,16 @@ import * as skaterQueries from './skater-queries';
 import { StoreError, type OwnerFilter, type StoreContext, type SyncedTable } from './store-context';
 import * as cues from './tables/cues';
 import * as observations from './tables/observations';
+import * as runs from './tables/runs';
 import * as sessions from './tables/sessions';
 import * as squad from './tables/squad';
+import * as targets from './tables/targets';
 
 export { StoreError, type OwnerFilter, type SyncedTable } from './store-context';
 export { toOutboxEntry, type OutboxEntry } from './outbox';
 export { localDay, sessionIdFor } from './tables/sessions';
 export type { RecordInput } from './tables/observations';
+export type { CrossingInput, StartHeatInput } from './tables/runs';
 export type { SkaterDay, SkaterNote } from './skater-queries';
 
 /**
@@ -86,7 +91,7 @@ const SYNC_META_PREFIXES = ['cursor:', 'last_sync_at:', 'resync:'];
 const ROWS_OWNER_KEY = 'rows_owner';
 
 /** Tables holding rows pulled for (or made by) the user the device belongs to right now. */
-const HELD_TABLES = ['observations', 'sessions', 'cues', 'skaters', 'groups', 'sync_shadow'] as const;
+const HELD_TABLES = ['observations', 'sessions', 'cues', 'skaters', 'groups', 'runs', 'crossings', 'targets', 'sync_shadow'] as const;
 
 export interface StoreOptions {
   /** Physical clock in ms (tests pin it). */
@@ -410,6 +415,64 @@ export class DeviceStore {
     return squad.listSkaters(this.ctx, teamId, options);
   }
 
+  // ---- the clock: runs, crossings, targets --------------------------------------------------
+
+  /** Starts a heat: a run per lane, rows and outbox entries in one transaction. */
+  startHeat(input: runs.StartHeatInput): Promise<Run[]> {
+    return runs.startHeat(this.ctx, input);
+  }
+
+  /** One tap on a lane button: the crossing and its outbox entry, committed at once. */
+  recordCrossing(input: runs.CrossingInput): Promise<Crossing> {
+    return runs.recordCrossing(this.ctx, input);
+  }
+
+  /** Undo, or delete after the race: gone without a trace if it never left the device. */
+  removeCrossings(ids: readonly string[], userId: string, role?: Role): Promise<void> {
+    return runs.removeCrossings(this.ctx, ids, userId, role);
+  }
+
+  updateCrossing(id: string, userId: string, patch: CrossingPatch, role?: Role): Promise<Crossing> {
+    return runs.updateCrossing(this.ctx, id, userId, patch, role);
+  }
+
+  /** The run's author changes it, the head coach any (`role`; without it, only the author). */
+  updateRun(id: string, userId: string, patch: RunPatch, role?: Role): Promise<Run> {
+    return runs.updateRun(this.ctx, id, userId, patch, role);
+  }
+
+  finishRun(id: string, userId: string, end: { status: 'finished' | 'stopped'; stopReason?: string }, role?: Role): Promise<Run> {
+    return runs.finishRun(this.ctx, id, userId, end, role);
+  }
+
+  /** Deletes a run (a false start) and its crossings. */
+  removeRun(id: string, userId: string, role?: Role): Promise<void> {
+    return runs.removeRun(this.ctx, id, userId, role);
+  }
+
+  getRun(id: string): Promise<RunWithCrossings | null> {
+    return runs.getRun(this.ctx, id);
+  }
+
+  /** The team's runs of a rink day, newest first, with their crossings. */
+  listRunsOnDay(teamId: string, day: string): Promise<RunWithCrossings[]> {
+    return runs.listRunsOnDay(this.ctx, teamId, day);
+  }
+
+  /** Runs still running (to resume after a reload), newest first; `createdBy`: only that coach's. */
+  listOpenRuns(teamId: string, createdBy?: string): Promise<RunWithCrossings[]> {
+    return runs.listOpenRuns(this.ctx, teamId, createdBy);
+  }
+
+  /** Sets a skater's target for a distance (one record per skater, track and distance, on every device). */
+  setTarget(input: TargetInput & { teamId: string; userId: string; role?: Role }): Promise<Target> {
+    return targets.setTarget(this.ctx, input);
+  }
+
+  listTargets(teamId: string): Promise<Target[]> {
+    return targets.listTargets(this.ctx, teamId);
+  }
+
   // ---- the outbox (the signed-in user's entries only) ---------------------------------------
 
   /** Outbox entries waiting to be sent (not counting rejected ones, which wait for the coach). */
@@ -458,6 +521,11 @@ export class DeviceStore {
   /** One skater's notes of one rink day, oldest first, with each cue's text and phase. */
   listForSkater(teamId: string, skaterId: string, day: string): Promise<skaterQueries.SkaterNote[]> {
     return skaterQueries.listForSkater(this.ctx, teamId, skaterId, day);
+  }
+
+  /** One skater's runs of one rink day, in the order they were timed, with their crossings. */
+  runsForSkater(teamId: string, skaterId: string, day: string): Promise<RunWithCrossings[]> {
+    return skaterQueries.runsForSkater(this.ctx, teamId, skaterId, day);
   }
 
   /** The most recent rink days with notes for the skater, newest first, with counts. */

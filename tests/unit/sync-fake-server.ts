@@ -16,7 +16,7 @@ type StoredRecord = { table: PullTable; id: string; teamId: string; fields: Reco
 type StoredTombstone = { table: PullTable; id: string; teamId: string; serverSeq: number };
 
 /** Fields a record needs before it exists (an edit to an unknown record is refused). */
-const REQUIRED: Record<string, string> = { observations: 'createdAt', sessions: 'createdAt', cues: 'phase' };
+const REQUIRED: Record<string, string> = { observations: 'createdAt', sessions: 'createdAt', cues: 'phase', runs: 'createdAt', crossings: 'createdAt', targets: 'targetMs' };
 
 export class FakeSyncServer {
   readonly records = new Map<string, StoredRecord>();
