@@ -374,8 +374,11 @@ export async function deviceState(driver: SqlDriver, teamId: string): Promise<Sy
     cues.set(String(r.id), { phase: r.phase, label: r.label, sortOrder: Number(r.sort_order), archived: bool(r.archived) });
   }
   const skaters: TableState = new Map();
-  for (const r of await driver.all<Record<string, string | number | null>>(`SELECT id, display_name, group_id, has_account FROM skaters WHERE team_id = ?`, [teamId])) {
-    skaters.set(String(r.id), { displayName: r.display_name, groupId: r.group_id ?? null, hasAccount: bool(r.has_account) });
+  for (const r of await driver.all<Record<string, string | number | null>>(
+    `SELECT id, display_name, group_id, has_account, retired FROM skaters WHERE team_id = ?`,
+    [teamId],
+  )) {
+    skaters.set(String(r.id), { displayName: r.display_name, groupId: r.group_id ?? null, hasAccount: bool(r.has_account), retired: bool(r.retired) });
   }
   const groups: TableState = new Map();
   for (const r of await driver.all<Record<string, string | number>>(`SELECT id, name, sort_order FROM groups WHERE team_id = ?`, [teamId])) {
