@@ -65,7 +65,7 @@ export function InvitationList({ teamId, invitations, skaters }: { teamId: strin
           text:
             kind === 'withdraw'
               ? `Invitation to ${invitation.email} withdrawn: its link no longer works.`
-              : `Sent again to ${invitation.email} with a fresh link, open until ${day(updated.expiresAt)}.`,
+              : `Sent again to ${invitation.email} with a fresh link, open until ${day(updated.expiresAt)}. The earlier link no longer works.`,
         });
       } catch (error) {
         const fallback =

@@ -411,7 +411,7 @@ describe('invitations', () => {
     serve(() => ({ status: 200, body: { ...list[1], expiresAt: at(7) } }));
     show();
     await fireWeb(getByTestIdWeb(`invitation-resend-${EXPIRED}`), 'onPress');
-    await waitFor(() => expect(bannerText('invitations-done')).toMatch(/^Sent again to late@example.test with a fresh link, open until \d+ \w+\.$/));
+    await waitFor(() => expect(bannerText('invitations-done')).toMatch(/^Sent again to late@example.test with a fresh link, open until \d+ \w+\. The earlier link no longer works\.$/));
     expect(changes()).toEqual([{ method: 'POST', url: `/api/teams/${TEAM}/invitations/${EXPIRED}/resend`, body: undefined }]);
   });
 
