@@ -92,12 +92,17 @@ export function BoardScreen() {
   const groups = squad.data?.groups ?? EMPTY_GROUPS;
   const cues = cueQuery.data ?? EMPTY_CUES;
   const skaterById = useMemo(() => new Map<string, Skater>(skaters.map((s) => [s.id, s])), [skaters]);
+  // Names for what was written before: a note for a skater retired since still names them.
+  const everyoneById = useMemo(
+    () => new Map<string, Skater>((squad.data?.everyone ?? skaters).map((s) => [s.id, s])),
+    [squad.data, skaters],
+  );
   const cueById = useMemo(() => new Map<string, Cue>(cues.map((c) => [c.id, c])), [cues]);
   const liveCueCount = useMemo(() => cues.filter((c) => !c.archived).length, [cues]);
 
   const namesOf = useCallback(
-    (ids: readonly string[]) => joinNames(ids.map((id) => skaterById.get(id)?.displayName ?? 'a skater')),
-    [skaterById],
+    (ids: readonly string[]) => joinNames(ids.map((id) => everyoneById.get(id)?.displayName ?? 'a skater')),
+    [everyoneById],
   );
   const describe = useCallback(
     (r: Recording) => `${cueById.get(r.cueId)?.label ?? 'cue'} for ${namesOf(r.skaterIds)}`,
@@ -215,7 +220,7 @@ export function BoardScreen() {
   const feedPart = (
     <FeedPart
       sessionId={today.id}
-      skaterById={skaterById}
+      skaterById={everyoneById}
       cueById={cueById}
       error={update.error ? update.error.message : null}
       onSave={saveObservation}

@@ -19,6 +19,7 @@ const ANNA = '0190a0b0-0000-7000-8000-0000000000a1';
 const BRAM = '0190a0b0-0000-7000-8000-0000000000b2';
 const GROUP = '0190a0b0-0000-7000-8000-0000000000c3';
 const KNEE = '0190a0b0-0000-7000-8000-0000000000d4';
+const CORA = '0190a0b0-0000-7000-8000-0000000000f5';
 
 const mockRecord = jest.fn();
 const obs = (id: string, skaterId: string) => ({
@@ -47,12 +48,23 @@ jest.mock('../../store/board', () => {
       fixed('squad', {
         groups: [{ id: GROUP, name: 'Juniors', sortOrder: 1 }],
         skaters: [
-          { id: ANNA, displayName: 'Anna Reede', groupId: GROUP, hasAccount: false },
-          { id: BRAM, displayName: 'Bram Tolsma', groupId: null, hasAccount: false },
+          { id: ANNA, displayName: 'Anna Reede', groupId: GROUP, hasAccount: false, retired: false },
+          { id: BRAM, displayName: 'Bram Tolsma', groupId: null, hasAccount: false, retired: false },
+        ],
+        // Cora retired after this morning's note: off the board, still named in the feed.
+        everyone: [
+          { id: ANNA, displayName: 'Anna Reede', groupId: GROUP, hasAccount: false, retired: false },
+          { id: BRAM, displayName: 'Bram Tolsma', groupId: null, hasAccount: false, retired: false },
+          { id: CORA, displayName: 'Cora Wiersma', groupId: GROUP, hasAccount: false, retired: true },
         ],
       }),
     cuesOnDevice: () => fixed('cues', [{ id: KNEE, phase: 'straight', label: 'Deeper knee bend', sortOrder: 1, archived: false }]),
-    observationsOnDevice: () => fixed('obs', [obs('0190a0b0-0000-7000-8000-0000000000e1', ANNA), obs('0190a0b0-0000-7000-8000-0000000000e2', ANNA)]),
+    observationsOnDevice: () =>
+      fixed('obs', [
+        obs('0190a0b0-0000-7000-8000-0000000000e1', ANNA),
+        obs('0190a0b0-0000-7000-8000-0000000000e2', ANNA),
+        obs('0190a0b0-0000-7000-8000-0000000000e3', CORA),
+      ]),
     useTodaySession: () => ({
       data: { id: SESSION, teamId: TEAM, day: '2026-03-14', rink: '', title: '', focusCueIds: [], createdAt: '', createdBy: TEAM },
       isPending: false,
@@ -104,6 +116,13 @@ describe('BoardScreen', () => {
     // The phone says it short; the full wording is the line's label.
     expect(textOf(getByTestIdWeb('status-pending'))).toBe('3 waiting to be sent');
     expect(getByTestIdWeb('status-pending').props['aria-label']).toContain('2 notes and 1 session waiting');
+  });
+
+  it('a retired skater has no tile, and their note in the feed still names them', async () => {
+    renderBoard();
+    await waitFor(() => getByTestIdWeb('feed-item-0190a0b0-0000-7000-8000-0000000000e3'));
+    expect(queryByTestIdWeb(`skater-tile-${CORA}`)).toBeNull();
+    expect(textOf(getByTestIdWeb('feed-item-0190a0b0-0000-7000-8000-0000000000e3'))).toContain('Cora Wiersma');
   });
 
   it('on a phone, one button steps the tiles through the groups', async () => {
