@@ -89,3 +89,38 @@ test('a whole session recorded with the server down survives a reload: 24 notes,
   check();
   await page.close();
 });
+
+test('opened from the home screen with the server down, the app starts on the board', async ({ browser }) => {
+  await startServer();
+  const { coach, skaters } = await apiCoachWithSkaters(BASE, ['Griet Hoekstra', 'Hessel Dijkstra']);
+  const context = await browser.newContext({ viewport: PHONE });
+  const first = await context.newPage();
+  await signInThroughForm(first, BASE, coach.email, coach.password);
+  await expect(tile(first, skaters[0].id)).toBeVisible();
+  // What "add to home screen" reads: the manifest linked from the page, with a standalone start.
+  const manifestHref = await first.locator('link[rel="manifest"]').getAttribute('href');
+  expect(manifestHref).toBeTruthy();
+  await first.evaluate(() => navigator.serviceWorker.ready.then(() => true));
+  await first.close();
+
+  await stopServer();
+
+  // A launch from the home screen: a new window at the manifest's start_url, nothing open before.
+  const launched = await context.newPage();
+  const check = watchErrors(launched, [/Failed to load resource/, /ERR_CONNECTION_REFUSED/]);
+  await launched.goto(`${BASE}/`);
+  const fromPage = await launched.evaluate(async (href) => {
+    const res = await fetch(href!);
+    return res.ok ? ((await res.json()) as { start_url: string; display: string }) : null;
+  }, manifestHref);
+  expect(fromPage).toMatchObject({ start_url: '/', display: 'standalone' });
+  await expect(launched.getByTestId('coach-home')).toBeVisible({ timeout: 30_000 });
+  await expect(launched.getByTestId('status-offline')).toBeVisible();
+  for (const s of skaters) await expect(tile(launched, s.id)).toBeVisible();
+  // The home-screen icon the manifest names comes from the device too.
+  const iconOk = await launched.evaluate(() => fetch('/icons/icon-192.png').then((r) => r.ok && r.headers.get('content-type')?.startsWith('image/')));
+  expect(iconOk).toBe(true);
+  await shootBoth(launched, 'board-launched-offline');
+  check();
+  await context.close();
+});
