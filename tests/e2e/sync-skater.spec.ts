@@ -101,6 +101,38 @@ test('offline notes reach the server once; the skater reads and acknowledges; th
   await expect(b.getByTestId('today-pending')).toHaveCount(0, { timeout: 20_000 });
   bErrors();
 
+  // --- Jildou's guardian, on a third phone: reads along, cannot acknowledge ---
+  const guardianEmail = uniqueEmail('jildou-guardian');
+  const guardianInvite = await fetch(`${BASE}/api/teams/${coach.teamId}/invitations`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', authorization: `Bearer ${coach.token}`, origin: BASE },
+    body: JSON.stringify({ email: guardianEmail, role: 'guardian', skaterId: jildou.id }),
+  });
+  expect(guardianInvite.status).toBe(201);
+  const guardianToken = new URL(await linkFromMail(guardianEmail)).searchParams.get('token');
+  const guardianAccepted = await fetch(`${BASE}/api/invitations/accept`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', origin: BASE },
+    body: JSON.stringify({ token: guardianToken, displayName: 'Trijntje Kramer', password: 'warm-gloves-please' }),
+  });
+  expect(guardianAccepted.status).toBe(200);
+  const guardianContext = await browser.newContext({ viewport: PHONE });
+  const g = await guardianContext.newPage();
+  const gErrors = watchErrors(g);
+  await g.goto(`${BASE}/sign-in`);
+  await g.getByTestId('sign-in-email').fill(guardianEmail);
+  await g.getByTestId('sign-in-password').fill('warm-gloves-please');
+  await g.getByTestId('sign-in-submit').click();
+  await expect(g.getByTestId('guardian-note')).toBeVisible({ timeout: 30_000 });
+  await expect(g.getByText(/Lovely low sitting position/)).toBeVisible();
+  await expect(g.getByText(/physio/)).toHaveCount(0);
+  // The skater's own acknowledgement shows; no "Got it" for the guardian to tap.
+  await expect(g.getByTestId(`acked-${observationId}`)).toBeVisible();
+  await expect(g.locator('[data-testid^="ack-"]')).toHaveCount(0);
+  await shootBoth(g, 'guardian-today');
+  gErrors();
+  await guardianContext.close();
+
   // --- coach A syncs again and sees the acknowledgement ---
   await syncNow(a);
   await expect(a.getByTestId(`feed-acked-${observationId}`)).toBeVisible({ timeout: 20_000 });
