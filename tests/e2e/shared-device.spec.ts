@@ -13,7 +13,7 @@
 import { expect, test, type Page } from '@playwright/test';
 import path from 'node:path';
 import { mkdirSync } from 'node:fs';
-import { apiCoachWithSkaters, linkFromMail, ownServer, PHONE, SHOTS, signInThroughForm, uniqueEmail, watchErrors, syncNow } from './support';
+import { apiCoachWithSkaters, inviteAndAccept, ownServer, PHONE, SHOTS, signInThroughForm, watchErrors, syncNow } from './support';
 import { tapCue } from './board-phone-taps';
 
 const server = ownServer(8445);
@@ -55,21 +55,9 @@ test('a coach and a skater on one phone: nothing leaks, nothing is lost, nothing
   const { coach, skaters, cues } = await apiCoachWithSkaters(BASE, ['Wietske Brouwer', 'Hidde Sijbrandij']);
   const [wietske, hidde] = skaters;
 
-  const skaterEmail = uniqueEmail('wietske');
-  const skaterPassword = 'blades-dry-after-training';
-  const invite = await fetch(`${BASE}/api/teams/${coach.teamId}/invitations`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', authorization: `Bearer ${coach.token}`, origin: BASE },
-    body: JSON.stringify({ email: skaterEmail, role: 'skater', skaterId: wietske.id }),
+  const { email: skaterEmail, password: skaterPassword } = await inviteAndAccept(BASE, coach, {
+    label: 'wietske', role: 'skater', skaterId: wietske.id, displayName: 'Wietske Brouwer', password: 'blades-dry-after-training',
   });
-  expect(invite.status).toBe(201);
-  const token = new URL(await linkFromMail(skaterEmail)).searchParams.get('token');
-  const accepted = await fetch(`${BASE}/api/invitations/accept`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', origin: BASE },
-    body: JSON.stringify({ token, displayName: 'Wietske Brouwer', password: skaterPassword }),
-  });
-  expect(accepted.status).toBe(200);
 
   const context = await browser.newContext({ viewport: PHONE });
   await context.addInitScript(() => localStorage.setItem('boardside.bench', '1'));

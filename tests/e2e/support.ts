@@ -100,6 +100,34 @@ export async function apiCoachWithSkaters(base: string, names: string[]) {
   return { coach, skaters, cues };
 }
 
+/**
+ * Someone invited by the head coach (as a skater or a guardian of `skaterId`) who accepts through
+ * the link in their mail, as in real life. Returns the new account's e-mail and password.
+ */
+export async function inviteAndAccept(
+  base: string,
+  coach: ApiCoach,
+  invite: { label: string; role: 'skater' | 'guardian' | 'coach'; skaterId?: string; displayName: string; password: string },
+) {
+  const email = uniqueEmail(invite.label);
+  await call(base, `/api/teams/${coach.teamId}/invitations`, {
+    token: coach.token,
+    body: { email, role: invite.role, ...(invite.skaterId ? { skaterId: invite.skaterId } : {}) },
+  });
+  const token = new URL(await linkFromMail(email)).searchParams.get('token');
+  await call(base, '/api/invitations/accept', { body: { token, displayName: invite.displayName, password: invite.password } });
+  return { email, password: invite.password };
+}
+
+/** Signs a skater or guardian in through the form and waits for their page. */
+export async function signInToToday(page: Page, base: string, email: string, password: string, timeout = 30_000) {
+  await page.goto(`${base}/sign-in`);
+  await page.getByTestId('sign-in-email').fill(email);
+  await page.getByTestId('sign-in-password').fill(password);
+  await page.getByTestId('sign-in-submit').click();
+  await expect(page.getByTestId('skater-home')).toBeVisible({ timeout });
+}
+
 /** Opens the sync panel, syncs by hand, waits until nothing is left to send and no error shows, closes it. */
 export async function syncNow(page: Page) {
   await page.getByTestId('sync-summary').first().click();

@@ -5,7 +5,7 @@
  * and sees the acknowledgement. This test runs its own server so it can stop and restart it.
  */
 import { expect, test, type Page } from '@playwright/test';
-import { apiCoachWithSkaters, linkFromMail, PHONE, shootBoth, signInThroughForm, uniqueEmail, watchErrors, ownServer, syncNow } from './support';
+import { apiCoachWithSkaters, inviteAndAccept, PHONE, shootBoth, signInThroughForm, signInToToday, watchErrors, ownServer, syncNow } from './support';
 import { tapCue } from './board-phone-taps';
 
 const server = ownServer(8435);
@@ -22,20 +22,9 @@ test('offline notes reach the server once; the skater reads and acknowledges; th
   const [jildou, klaas] = skaters;
 
   // Jildou gets an account through an invitation, as in real life.
-  const skaterEmail = uniqueEmail('jildou');
-  const invite = await fetch(`${BASE}/api/teams/${coach.teamId}/invitations`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', authorization: `Bearer ${coach.token}`, origin: BASE },
-    body: JSON.stringify({ email: skaterEmail, role: 'skater', skaterId: jildou.id }),
+  const jildouAccount = await inviteAndAccept(BASE, coach, {
+    label: 'jildou', role: 'skater', skaterId: jildou.id, displayName: 'Jildou Kramer', password: 'skates-laced-tight',
   });
-  expect(invite.status).toBe(201);
-  const token = new URL(await linkFromMail(skaterEmail)).searchParams.get('token');
-  const accepted = await fetch(`${BASE}/api/invitations/accept`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', origin: BASE },
-    body: JSON.stringify({ token, displayName: 'Jildou Kramer', password: 'skates-laced-tight' }),
-  });
-  expect(accepted.status).toBe(200);
 
   // --- coach A, at the boards ---
   const coachContext = await browser.newContext({ viewport: PHONE });
@@ -81,11 +70,7 @@ test('offline notes reach the server once; the skater reads and acknowledges; th
   const skaterContext = await browser.newContext({ viewport: PHONE });
   const b = await skaterContext.newPage();
   const bErrors = watchErrors(b);
-  await b.goto(`${BASE}/sign-in`);
-  await b.getByTestId('sign-in-email').fill(skaterEmail);
-  await b.getByTestId('sign-in-password').fill('skates-laced-tight');
-  await b.getByTestId('sign-in-submit').click();
-  await expect(b.getByTestId('skater-home')).toBeVisible();
+  await signInToToday(b, BASE, jildouAccount.email, jildouAccount.password);
   const acks = b.locator('[data-testid^="ack-"]');
   await expect(acks).toHaveCount(16, { timeout: 20_000 });
   for (let i = 14; i < 20; i += 1) await expect(b.getByText(cues[i].label, { exact: true })).toHaveCount(0);
@@ -102,27 +87,13 @@ test('offline notes reach the server once; the skater reads and acknowledges; th
   bErrors();
 
   // --- Jildou's guardian, on a third phone: reads along, cannot acknowledge ---
-  const guardianEmail = uniqueEmail('jildou-guardian');
-  const guardianInvite = await fetch(`${BASE}/api/teams/${coach.teamId}/invitations`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', authorization: `Bearer ${coach.token}`, origin: BASE },
-    body: JSON.stringify({ email: guardianEmail, role: 'guardian', skaterId: jildou.id }),
+  const guardian = await inviteAndAccept(BASE, coach, {
+    label: 'jildou-guardian', role: 'guardian', skaterId: jildou.id, displayName: 'Trijntje Kramer', password: 'warm-gloves-please',
   });
-  expect(guardianInvite.status).toBe(201);
-  const guardianToken = new URL(await linkFromMail(guardianEmail)).searchParams.get('token');
-  const guardianAccepted = await fetch(`${BASE}/api/invitations/accept`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', origin: BASE },
-    body: JSON.stringify({ token: guardianToken, displayName: 'Trijntje Kramer', password: 'warm-gloves-please' }),
-  });
-  expect(guardianAccepted.status).toBe(200);
   const guardianContext = await browser.newContext({ viewport: PHONE });
   const g = await guardianContext.newPage();
   const gErrors = watchErrors(g);
-  await g.goto(`${BASE}/sign-in`);
-  await g.getByTestId('sign-in-email').fill(guardianEmail);
-  await g.getByTestId('sign-in-password').fill('warm-gloves-please');
-  await g.getByTestId('sign-in-submit').click();
+  await signInToToday(g, BASE, guardian.email, guardian.password);
   await expect(g.getByTestId('guardian-note')).toBeVisible({ timeout: 30_000 });
   await expect(g.getByText(/Lovely low sitting position/)).toBeVisible();
   await expect(g.getByText(/physio/)).toHaveCount(0);
