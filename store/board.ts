@@ -335,12 +335,22 @@ export function usePendingCount() {
 
 const plural = (n: number, one: string, many: string) => `${n} ${n === 1 ? one : many}`;
 
-/** "24 notes and 1 session waiting to be sent": what waits, in the coach's words. */
-export function describePending(byTable: { observations: number; sessions: number; cues: number }): string {
+/** "24 notes and 1 session waiting to be sent": what waits, in the coach's words (the clock's too). */
+export function describePending(byTable: {
+  observations: number;
+  sessions: number;
+  cues: number;
+  runs?: number;
+  crossings?: number;
+  targets?: number;
+}): string {
   const parts = [
     byTable.observations ? plural(byTable.observations, 'note', 'notes') : '',
     byTable.sessions ? plural(byTable.sessions, 'session', 'sessions') : '',
     byTable.cues ? plural(byTable.cues, 'cue change', 'cue changes') : '',
+    byTable.runs ? plural(byTable.runs, 'timed run', 'timed runs') : '',
+    byTable.crossings ? plural(byTable.crossings, 'lap time', 'lap times') : '',
+    byTable.targets ? plural(byTable.targets, 'target', 'targets') : '',
   ].filter(Boolean);
   if (parts.length === 0) return 'Nothing waiting to be sent';
   const list = parts.length > 1 ? `${parts.slice(0, -1).join(', ')} and ${parts[parts.length - 1]}` : parts[0];

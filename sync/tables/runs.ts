@@ -219,15 +219,26 @@ export async function updateCrossing(ctx: StoreContext, id: string, userId: stri
   });
 }
 
-/** Changes a run after it started: finish or stop it, its note, or what was set up wrong. */
-export async function updateRun(ctx: StoreContext, id: string, userId: string, patch: RunPatch, role?: Role): Promise<Run> {
+/**
+ * Changes a run after it started: finish or stop it, its note, or what was set up wrong. Only the
+ * fields that change are queued, except those in `always` (sent as they are: an end of a run sets
+ * its status and reason together, so an older reason from another device never sticks to it).
+ */
+export async function updateRun(
+  ctx: StoreContext,
+  id: string,
+  userId: string,
+  patch: RunPatch,
+  role?: Role,
+  always: readonly (keyof RunPatch)[] = [],
+): Promise<Run> {
   const changes = validate<RunPatch>(runPatchSchema, patch);
   return ctx.tx(async () => {
     const run = await runRow(ctx, id);
     assertMayChange(run, userId, role);
     const fields: Record<string, unknown> = {};
     for (const [field, value] of Object.entries(changes) as [keyof RunPatch, unknown][]) {
-      if (value !== undefined && value !== run[field]) fields[field] = value;
+      if (value !== undefined && (value !== run[field] || always.includes(field))) fields[field] = value;
     }
     if (Object.keys(fields).length === 0) return run;
     const { id: _id, teamId: _team, ...current } = run;
@@ -248,7 +259,7 @@ export function finishRun(
   end: { status: 'finished' | 'stopped'; stopReason?: string },
   role?: Role,
 ): Promise<Run> {
-  return updateRun(ctx, id, userId, { status: end.status, stopReason: end.status === 'stopped' ? (end.stopReason ?? '') : '' }, role);
+  return updateRun(ctx, id, userId, { status: end.status, stopReason: end.status === 'stopped' ? (end.stopReason ?? '') : '' }, role, ['status', 'stopReason']);
 }
 
 /** Deletes a run (a false start) with its crossings. */

@@ -3,12 +3,14 @@
  * a tap's crossing is in the cached runs before the store is even reached, stays there through a
  * re-read that runs while its write waits, and leaves again (with the reason) if the write fails;
  * every write tells sync a change waits; the open runs are the signed-in coach's only; an undo
- * takes the crossing off the screen at once and puts it back when the store refuses.
+ * takes the crossing off the screen at once and puts it back when the store refuses; the waiting
+ * changes are named, the clock's included.
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { act, renderHook, waitFor } from '@testing-library/react-native';
 import type { ReactNode } from 'react';
 
+import { describePending } from '../../store/board';
 import { clockKeys, openRunsQuery, runsOnDayQuery, useDeleteCrossing, useRecordCrossing } from '../../store/clock';
 import { useSession } from '../../store/session';
 
@@ -145,5 +147,12 @@ describe('openRunsQuery', () => {
     const client = new QueryClient();
     await client.fetchQuery(openRunsQuery(TEAM));
     expect(mockStore.listOpenRuns).toHaveBeenCalledWith(TEAM, COACH);
+  });
+});
+
+describe('what waits to be sent', () => {
+  it('names the clock’s changes too (the panel never says nothing waits while lap times do)', () => {
+    expect(describePending({ observations: 0, sessions: 0, cues: 0, runs: 2, crossings: 14, targets: 1 })).toBe('2 timed runs, 14 lap times and 1 target waiting to be sent');
+    expect(describePending({ observations: 3, sessions: 0, cues: 0, runs: 0, crossings: 1, targets: 0 })).toBe('3 notes and 1 lap time waiting to be sent');
   });
 });
