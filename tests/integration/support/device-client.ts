@@ -17,7 +17,8 @@ import { v5 as uuidv5 } from 'uuid';
 import type { AddressInfo } from 'node:net';
 import type { Express } from 'express';
 import { pullReplySchema, pushReplySchema, type PullReply, type PushBody, type PushReply } from '../../../shared/schemas/sync';
-import type { SqlDriver } from '../../../sync/driver';
+import type { SqlDriver, SqlValue } from '../../../sync/driver';
+import { decodeRow, selectColumns } from '../../../sync/fields';
 import { synchronize, type SyncResult } from '../../../sync/engine';
 import { DeviceStore } from '../../../sync/store';
 import { RequestRefused, ResyncRequired, ServerUnavailable, TransportError, type PullQuery, type SyncTransport } from '../../../sync/transport';
@@ -341,9 +342,25 @@ export interface SyncedState {
   cues: TableState;
   skaters: TableState;
   groups: TableState;
+  runs: TableState;
+  crossings: TableState;
+  targets: TableState;
 }
 
-export const STATE_TABLES = ['observations', 'sessions', 'cues', 'skaters', 'groups'] as const;
+export const STATE_TABLES = ['observations', 'sessions', 'cues', 'skaters', 'groups', 'runs', 'crossings', 'targets'] as const;
+
+/** The clock's tables, read through the device's own mapping (sync/fields.ts), live rows only. */
+const CLOCK_TABLES = ['runs', 'crossings', 'targets'] as const;
+
+async function clockState(driver: SqlDriver, teamId: string, table: (typeof CLOCK_TABLES)[number]): Promise<TableState> {
+  const hidden = table === 'targets' ? '' : ' AND deleted = 0';
+  const state: TableState = new Map();
+  for (const r of await driver.all<Record<string, SqlValue>>(`SELECT id, ${selectColumns(table)} FROM ${table} WHERE team_id = ?${hidden}`, [teamId])) {
+    const { id, ...fields } = decodeRow<Fields & { id: string }>(table, r);
+    state.set(id, fields);
+  }
+  return state;
+}
 
 const bool = (v: unknown) => v === true || v === 1;
 
@@ -384,7 +401,8 @@ export async function deviceState(driver: SqlDriver, teamId: string): Promise<Sy
   for (const r of await driver.all<Record<string, string | number>>(`SELECT id, name, sort_order FROM groups WHERE team_id = ?`, [teamId])) {
     groups.set(String(r.id), { name: r.name, sortOrder: Number(r.sort_order) });
   }
-  return { observations, sessions, cues, skaters, groups, tombstones };
+  const [runs, crossings, targets] = await Promise.all(CLOCK_TABLES.map((table) => clockState(driver, teamId, table)));
+  return { observations, sessions, cues, skaters, groups, runs, crossings, targets, tombstones };
 }
 
 /** The server's live records as a coach pulls them from cursor 0 (no faults, pages of 1000). */
@@ -406,7 +424,16 @@ export async function serverState(endpoint: Endpoint, token: string, teamId: str
     cursor = page.nextCursor;
     if (!page.hasMore) break;
   }
-  const state: SyncedState = { observations: new Map(), sessions: new Map(), cues: new Map(), skaters: new Map(), groups: new Map() };
+  const state: SyncedState = {
+    observations: new Map(),
+    sessions: new Map(),
+    cues: new Map(),
+    skaters: new Map(),
+    groups: new Map(),
+    runs: new Map(),
+    crossings: new Map(),
+    targets: new Map(),
+  };
   for (const row of latest.values()) {
     if (!row.fields) continue;
     const target = (state as unknown as Record<string, TableState>)[row.table];
@@ -429,17 +456,23 @@ export function skaterView(coach: SyncedState, skaterId: string): SyncedState {
   const groupId = (own?.groupId as string | null | undefined) ?? null;
   const observations: TableState = new Map();
   for (const [id, o] of coach.observations) if (o.skaterId === skaterId) observations.set(id, { ...o, note: o.noteShared ? o.note : '' });
+  const ownOnly = (table: TableState, keep: (fields: Fields) => boolean): TableState => new Map([...table].filter(([, fields]) => keep(fields)));
+  const runs = ownOnly(coach.runs, (r) => r.skaterId === skaterId);
   return {
     observations,
     sessions: new Map(coach.sessions),
     cues: new Map(coach.cues),
     skaters: new Map(own ? [[skaterId, own]] : []),
     groups: new Map(groupId && coach.groups.has(groupId) ? [[groupId, coach.groups.get(groupId)!]] : []),
+    // Their own runs, the crossings of those runs, their own targets (shared/sync-tables.ts viewerRows).
+    runs,
+    crossings: ownOnly(coach.crossings, (c) => runs.has(c.runId as string)),
+    targets: ownOnly(coach.targets, (t) => t.skaterId === skaterId),
   };
 }
 
 /** Every table the device store holds rows in for its user (the outbox is the user's own, parked). */
-export const HELD_TABLES = ['observations', 'sessions', 'cues', 'skaters', 'groups', 'sync_shadow'] as const;
+export const HELD_TABLES = ['observations', 'sessions', 'cues', 'skaters', 'groups', 'runs', 'crossings', 'targets', 'sync_shadow'] as const;
 
 /**
  * What a skater's device must not hold, whatever the state of a row (live, deleted, shadow): any
@@ -456,6 +489,13 @@ export async function skaterLeaks(driver: SqlDriver, skaterId: string, groupId: 
     else if (!r.note_shared && r.note !== '') leaks.push(`observation ${r.id}: private note text ${JSON.stringify(r.note)}`);
   }
   for (const r of await driver.all<{ id: string }>(`SELECT id FROM skaters WHERE id <> ?`, [skaterId])) leaks.push(`skater ${r.id}`);
+  for (const r of await driver.all<{ id: string; skater_id: string }>(`SELECT id, skater_id FROM runs WHERE skater_id <> ?`, [skaterId])) {
+    leaks.push(`run ${r.id} of skater ${r.skater_id}`);
+  }
+  for (const r of await driver.all<{ id: string }>(`SELECT id FROM crossings WHERE run_id NOT IN (SELECT id FROM runs WHERE skater_id = ?)`, [skaterId])) {
+    leaks.push(`crossing ${r.id} of a run not theirs`);
+  }
+  for (const r of await driver.all<{ id: string }>(`SELECT id FROM targets WHERE skater_id <> ?`, [skaterId])) leaks.push(`target ${r.id}`);
   for (const r of await driver.all<{ id: string }>(`SELECT id FROM groups WHERE id IS NOT ?`, [groupId])) leaks.push(`group ${r.id}`);
   for (const table of HELD_TABLES) {
     const text = JSON.stringify(await driver.all(`SELECT * FROM ${table}`));
