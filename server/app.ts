@@ -18,6 +18,7 @@ import { logger } from './lib/logger';
 import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
 import { invitationRoutes } from './routes/invitations';
+import { reviewRoutes } from './routes/review';
 import { syncRoutes } from './routes/sync';
 import { teamRoutes } from './routes/teams';
 
@@ -92,6 +93,7 @@ export function createApp(dataSource: DataSource) {
   app.use('/api', authRoutes(dataSource));
   app.use('/api', invitationRoutes(dataSource));
   app.use('/api', teamRoutes(dataSource));
+  app.use('/api', reviewRoutes(dataSource));
   app.use('/api', syncRoutes(dataSource));
   app.use('/api', (req) => {
     throw new HttpError(404, 'not_found', `No API route for ${req.method} ${req.path}`);

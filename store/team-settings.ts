@@ -13,7 +13,7 @@ export const teamSettingsKeys = {
 };
 
 /** Until the server has answered once: notes at the boards stay with the coaches. */
-export const DEFAULT_TEAM_SETTINGS: TeamSettings = { shareBoardNotes: false };
+export const DEFAULT_TEAM_SETTINGS: TeamSettings = { shareBoardNotes: false, timeZone: 'UTC' };
 
 const storage = (): Storage | undefined => (typeof localStorage !== 'undefined' ? localStorage : undefined);
 const storageKey = (teamId: string) => `boardside.team-settings.${teamId}`;

@@ -15,7 +15,7 @@ export function SignUpScreen() {
   const onSubmit = () =>
     form.submit(async (data) => {
       try {
-        await signUp.mutateAsync(data);
+        await signUp.mutateAsync({ ...data, timeZone: Intl.DateTimeFormat().resolvedOptions().timeZone });
       } catch (error) {
         form.applyServerError(isApiRequestError(error) ? error : { message: 'Could not create the team. Try again.' });
       }

@@ -8,12 +8,16 @@ import { logger } from '../lib/logger';
 import { sendMail } from '../lib/mailer';
 import { dummyPasswordHash, hashPassword, verifyPassword } from '../lib/passwords';
 import { hashToken, randomToken } from '../lib/tokens';
-import { Membership, PasswordReset, Team, User } from '../entities';
+import { Membership, PasswordReset, User } from '../entities';
 import { insertDefaultCues } from './cues';
 import { issueSession, revokeAllForUser, type IssuedSession } from './sessions';
+import { isKnownTimeZone } from './team-settings';
 
 export async function signUp(dataSource: DataSource, input: SignUpInput): Promise<IssuedSession> {
   const passwordHash = await hashPassword(input.password);
+  // The browser's zone, when PostgreSQL can count in it; otherwise UTC, which the head coach can
+  // change in the team's settings (a sign-up never fails over a zone the form did not show).
+  const timeZone = input.timeZone && (await isKnownTimeZone(dataSource, input.timeZone)) ? input.timeZone : 'UTC';
   return dataSource.transaction(async (tx) => {
     const existing = await tx.getRepository(User).findOneBy({ email: input.email });
     if (existing) throw conflict('An account with this e-mail already exists: sign in instead', { email: 'An account with this e-mail already exists' });
@@ -25,7 +29,7 @@ export async function signUp(dataSource: DataSource, input: SignUpInput): Promis
     });
     await tx.getRepository(User).insert(user);
     const teamId = uuidv7();
-    await tx.getRepository(Team).insert({ id: teamId, name: input.teamName });
+    await tx.query(`INSERT INTO teams (id, name, time_zone) VALUES ($1, $2, $3)`, [teamId, input.teamName, timeZone]);
     await tx.getRepository(Membership).insert({ teamId, userId: user.id, role: 'head_coach', skaterId: null });
     // The team's sync counter (shared/SYNC.md, "Server order"); the cue library draws from it.
     await tx.query(`INSERT INTO team_counters (team_id, seq) VALUES ($1, 0)`, [teamId]);

@@ -4,6 +4,7 @@
  * agree on what is valid and on the wording of the message.
  */
 import { z } from 'zod';
+import { timeZoneSchema } from '../weeks';
 
 export const roles = ['head_coach', 'coach', 'skater', 'guardian'] as const;
 export const roleSchema = z.enum(roles);
@@ -66,6 +67,8 @@ export const signUpSchema = z
     password: passwordSchema,
     displayName: displayNameSchema,
     teamName: teamNameSchema,
+    /** The new team's time zone (the browser's); UTC when absent. */
+    timeZone: timeZoneSchema.optional(),
   })
   .strict();
 export type SignUpInput = z.infer<typeof signUpSchema>;

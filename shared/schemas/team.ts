@@ -1,5 +1,6 @@
 /** Schemas for the squad: skater groups, skater profiles and team members. */
 import { z } from 'zod';
+import { timeZoneSchema } from '../weeks';
 import { displayNameSchema, roleSchema } from './auth';
 
 export const groupSchema = z.object({
@@ -73,11 +74,16 @@ export type Squad = z.infer<typeof squadSchema>;
 export const teamSettingsSchema = z.object({
   /** Whether a note written at the boards is shared with its skater unless the coach says otherwise. */
   shareBoardNotes: z.boolean(),
+  /**
+   * The team's IANA time zone: the review's ISO weeks and days are counted in it. A copy a device
+   * kept from before the setting existed reads as UTC (the server's default) instead of failing.
+   */
+  timeZone: z.string().default('UTC'),
 });
 export type TeamSettings = z.infer<typeof teamSettingsSchema>;
 
 export const teamSettingsPatchSchema = z
-  .object({ shareBoardNotes: z.boolean({ error: 'shareBoardNotes must be true or false' }) })
+  .object({ shareBoardNotes: z.boolean({ error: 'shareBoardNotes must be true or false' }), timeZone: timeZoneSchema })
   .partial()
   .strict();
 export type TeamSettingsPatch = z.infer<typeof teamSettingsPatchSchema>;

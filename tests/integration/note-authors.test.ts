@@ -97,7 +97,7 @@ describe("the team's default for sharing boards notes", () => {
   it('starts as coaches only; the head coach changes it, a coach reads it, a coach or skater cannot change it', async () => {
     const fresh = await makeTeam(server.app, 'share', { people: true });
     const read = await request(server.app).get(settings(fresh.teamId)).set(fresh.coach.auth).expect(200);
-    expect(read.body).toEqual({ shareBoardNotes: false });
+    expect(read.body).toEqual({ shareBoardNotes: false, timeZone: 'UTC' });
 
     expectError(await request(server.app).patch(settings(fresh.teamId)).set(fresh.coach.auth).send({ shareBoardNotes: true }), 403);
     expectError(await request(server.app).get(settings(fresh.teamId)).set(fresh.skaterAccount.auth), 403);
@@ -107,9 +107,9 @@ describe("the team's default for sharing boards notes", () => {
     expectError(await request(server.app).patch(settings(fresh.teamId)).set(team.head.auth).send({ shareBoardNotes: true }), 404);
 
     const changed = await request(server.app).patch(settings(fresh.teamId)).set(fresh.head.auth).send({ shareBoardNotes: true }).expect(200);
-    expect(changed.body).toEqual({ shareBoardNotes: true });
-    expect((await request(server.app).get(settings(fresh.teamId)).set(fresh.coach.auth).expect(200)).body).toEqual({ shareBoardNotes: true });
+    expect(changed.body).toEqual({ shareBoardNotes: true, timeZone: 'UTC' });
+    expect((await request(server.app).get(settings(fresh.teamId)).set(fresh.coach.auth).expect(200)).body).toEqual({ shareBoardNotes: true, timeZone: 'UTC' });
     // One team's choice stays its own.
-    expect((await request(server.app).get(settings(team.teamId)).set(team.head.auth).expect(200)).body).toEqual({ shareBoardNotes: false });
+    expect((await request(server.app).get(settings(team.teamId)).set(team.head.auth).expect(200)).body).toEqual({ shareBoardNotes: false, timeZone: 'UTC' });
   });
 });

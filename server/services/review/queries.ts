@@ -1,0 +1,216 @@
+/**
+ * The review's counts, each view one SQL statement that groups in PostgreSQL (no counting of
+ * single notes here): ISO weeks come from to_char(created_at AT TIME ZONE zone, 'IYYY-"W"IW'),
+ * the range is [Monday of `from`, Monday after `to`) at local midnight, so the index ranges of
+ * ix_observations_review_skater / _team (team_id leading, live notes only) do the reading.
+ * Deleted notes (tombstones, deleted_at set) never count; notes of a deleted cue are left out
+ * with it (archived cues stay, flagged). Every statement is bounded by the caller's team; lists
+ * travel as arrays (one parameter), never as one parameter per item.
+ */
+import type { DataSource } from 'typeorm';
+import { phases, type Phase } from '../../../shared/cues';
+import type { ReviewCell, ReviewCue, ReviewGroup, ReviewMatrix, ReviewRow, ReviewWeek } from '../../../shared/schemas/review';
+import { trendOf } from './trend';
+import type { Viewer } from './access';
+import type { WeekRange } from './range';
+
+const WEEK = `'IYYY-"W"IW'`;
+/** Local midnight of a day ($n::date) in the zone ($2) as an instant. */
+const localMidnight = (param: string) => `(${param}::date::timestamp AT TIME ZONE $2)`;
+
+/** Skaters of a group the review sums over: live (not retired, not deleted) ones; $3 is the group id. */
+function groupMembers(group: ReviewGroup): { sql: string; param: string | null } {
+  const base = `SELECT s.id, s.display_name FROM skaters s WHERE s.team_id = $1 AND s.deleted_at IS NULL AND s.retired_at IS NULL`;
+  if (group === 'all') return { sql: `${base} AND $3::uuid IS NULL`, param: null };
+  if (group === 'none') return { sql: `${base} AND s.group_id IS NULL AND $3::uuid IS NULL`, param: null };
+  return { sql: `${base} AND s.group_id = $3::uuid`, param: group };
+}
+
+interface MatrixRow {
+  cue_id: string;
+  phase: Phase;
+  label: string;
+  archived: boolean;
+  week: string;
+  needs_work: number;
+  good: number;
+  total_needs_work: number;
+  total_good: number;
+}
+
+/**
+ * $1 team, $2 zone, $3 skater id or group id, $4 first Monday, $5 Monday after the range,
+ * $6 the phases in display order. `who` selects the notes' skaters.
+ */
+const matrixSql = (who: string) => `
+  WITH cells AS (
+    SELECT o.cue_id,
+           to_char(o.created_at AT TIME ZONE $2, ${WEEK}) AS week,
+           count(*) FILTER (WHERE o.mark = 'needs_work')::int AS needs_work,
+           count(*) FILTER (WHERE o.mark = 'good')::int AS good
+      FROM observations o
+     WHERE o.team_id = $1 AND o.deleted_at IS NULL
+       AND o.created_at >= ${localMidnight('$4')} AND o.created_at < ${localMidnight('$5')}
+       AND ${who}
+     GROUP BY 1, 2
+  )
+  SELECT c.id AS cue_id, c.phase, c.label, c.archived, cells.week, cells.needs_work, cells.good,
+         (sum(cells.needs_work) OVER (PARTITION BY c.id))::int AS total_needs_work,
+         (sum(cells.good) OVER (PARTITION BY c.id))::int AS total_good
+    FROM cells
+    JOIN cues c ON c.team_id = $1 AND c.id = cells.cue_id AND c.deleted_at IS NULL
+   ORDER BY array_position($6::text[], c.phase), c.sort_order, c.label, c.id, cells.week`;
+
+function toMatrix(rows: MatrixRow[], range: WeekRange, timeZone: string): ReviewMatrix {
+  const out: ReviewRow[] = [];
+  for (const row of rows) {
+    let last = out[out.length - 1];
+    if (!last || last.cueId !== row.cue_id) {
+      last = {
+        cueId: row.cue_id,
+        phase: row.phase,
+        label: row.label,
+        archived: row.archived,
+        counts: [],
+        totalNeedsWork: row.total_needs_work,
+        totalGood: row.total_good,
+        trend: 'not enough data',
+      };
+      out.push(last);
+    }
+    last.counts.push({ week: row.week, needsWork: row.needs_work, good: row.good });
+  }
+  for (const row of out) row.trend = trendOf(range.weeks, row.counts);
+  return { timeZone, from: range.from, to: range.to, weeks: range.weeks, rows: out };
+}
+
+/** One skater's cues x weeks (the caller has checked the viewer may see this skater). */
+export async function skaterMatrix(dataSource: DataSource, teamId: string, timeZone: string, skaterId: string, range: WeekRange) {
+  const rows: MatrixRow[] = await dataSource.query(matrixSql(`o.skater_id = $3::uuid`), [
+    teamId,
+    timeZone,
+    skaterId,
+    range.startDay,
+    range.endDay,
+    phases,
+  ]);
+  return toMatrix(rows, range, timeZone);
+}
+
+/** The same matrix summed over a group's live skaters ('all': the team; 'none': skaters in no group). */
+export async function groupMatrix(dataSource: DataSource, teamId: string, timeZone: string, group: ReviewGroup, range: WeekRange) {
+  const members = groupMembers(group);
+  const rows: MatrixRow[] = await dataSource.query(matrixSql(`o.skater_id IN (SELECT id FROM (${members.sql}) m)`), [
+    teamId,
+    timeZone,
+    members.param,
+    range.startDay,
+    range.endDay,
+    phases,
+  ]);
+  return toMatrix(rows, range, timeZone);
+}
+
+interface WeekRow {
+  skater_id: string;
+  display_name: string;
+  cue_id: string | null;
+  phase: Phase | null;
+  label: string | null;
+  archived: boolean | null;
+  sort_order: number | null;
+  needs_work: number | null;
+  good: number | null;
+}
+
+/** Skaters x cues for one week: every live skater of the group, the cues marked that week, the non-empty cells. */
+export async function weekGrid(dataSource: DataSource, teamId: string, timeZone: string, group: ReviewGroup, range: WeekRange): Promise<ReviewWeek> {
+  const members = groupMembers(group);
+  const rows: WeekRow[] = await dataSource.query(
+    `WITH members AS (${members.sql}),
+     cells AS (
+       SELECT o.skater_id, o.cue_id,
+              count(*) FILTER (WHERE o.mark = 'needs_work')::int AS needs_work,
+              count(*) FILTER (WHERE o.mark = 'good')::int AS good
+         FROM observations o
+        WHERE o.team_id = $1 AND o.deleted_at IS NULL
+          AND o.created_at >= ${localMidnight('$4')} AND o.created_at < ${localMidnight('$5')}
+          AND o.skater_id IN (SELECT id FROM members)
+        GROUP BY 1, 2
+     )
+     SELECT m.id AS skater_id, m.display_name, c.id AS cue_id, c.phase, c.label, c.archived, c.sort_order,
+            x.needs_work, x.good
+       FROM members m
+       LEFT JOIN (cells x JOIN cues c ON c.team_id = $1 AND c.id = x.cue_id AND c.deleted_at IS NULL) ON x.skater_id = m.id
+      ORDER BY m.display_name COLLATE "und-x-icu", m.id`,
+    [teamId, timeZone, members.param, range.startDay, range.endDay],
+  );
+  const skaters: ReviewWeek['skaters'] = [];
+  const cues = new Map<string, ReviewCue & { sortOrder: number }>();
+  const cells: ReviewWeek['cells'] = [];
+  for (const row of rows) {
+    if (skaters[skaters.length - 1]?.id !== row.skater_id) skaters.push({ id: row.skater_id, displayName: row.display_name });
+    if (row.cue_id === null) continue;
+    if (!cues.has(row.cue_id)) {
+      cues.set(row.cue_id, { cueId: row.cue_id, phase: row.phase!, label: row.label!, archived: row.archived!, sortOrder: row.sort_order! });
+    }
+    cells.push({ skaterId: row.skater_id, cueId: row.cue_id, needsWork: row.needs_work!, good: row.good! });
+  }
+  const ordered = [...cues.values()]
+    .sort((a, b) => phases.indexOf(a.phase) - phases.indexOf(b.phase) || a.sortOrder - b.sortOrder || a.label.localeCompare(b.label))
+    .map(({ sortOrder: _sortOrder, ...cue }) => cue);
+  return { timeZone, week: range.from, skaters, cues: ordered, cells };
+}
+
+/** Most notes a cell answers with (one skater, one cue, one week: far more than a coach makes). */
+export const CELL_NOTES_LIMIT = 500;
+
+/** The notes behind one cell, newest first; a skater or guardian reads a note's text only when shared. */
+export async function cellNotes(
+  dataSource: DataSource,
+  viewer: Viewer,
+  timeZone: string,
+  skaterId: string,
+  cueId: string,
+  range: WeekRange,
+): Promise<ReviewCell> {
+  const rows: {
+    id: string;
+    created_at: string;
+    day: string;
+    author_name: string;
+    mark: 'needs_work' | 'good';
+    note: string;
+    note_shared: boolean;
+    session_id: string;
+  }[] = await dataSource.query(
+    `SELECT o.id,
+            to_char(o.created_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"') AS created_at,
+            to_char(o.created_at AT TIME ZONE $2, 'YYYY-MM-DD') AS day,
+            coalesce(nullif(o.author_name, ''), u.display_name, '') AS author_name,
+            o.mark,
+            CASE WHEN $7 OR o.note_shared THEN o.note ELSE '' END AS note,
+            o.note_shared, o.session_id
+       FROM observations o
+       LEFT JOIN users u ON u.id = o.created_by
+      WHERE o.team_id = $1 AND o.skater_id = $3 AND o.cue_id = $6 AND o.deleted_at IS NULL
+        AND o.created_at >= ${localMidnight('$4')} AND o.created_at < ${localMidnight('$5')}
+      ORDER BY o.created_at DESC, o.id DESC
+      LIMIT ${CELL_NOTES_LIMIT}`,
+    [viewer.teamId, timeZone, skaterId, range.startDay, range.endDay, cueId, viewer.coach],
+  );
+  return {
+    timeZone,
+    week: range.from,
+    notes: rows.map((r) => ({
+      id: r.id,
+      createdAt: r.created_at,
+      day: r.day,
+      authorName: r.author_name,
+      mark: r.mark,
+      note: r.note,
+      noteShared: r.note_shared,
+      sessionId: r.session_id,
+    })),
+  };
+}
