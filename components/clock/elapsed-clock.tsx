@@ -52,7 +52,14 @@ export function ElapsedClock({
   }, [running, startPerfTs, offsetMs, finalMs]);
 
   return (
-    <View style={styles.wrap} role="timer" aria-label="Elapsed time" testID="clock-elapsed">
+    <View
+      style={styles.wrap}
+      role="timer"
+      aria-label="Elapsed time"
+      testID="clock-elapsed"
+      // Where the clock stands on this page's performance clock: tests dispatch taps against it.
+      {...({ dataSet: { anchor: String(startPerfTs), offset: String(offsetMs) } } as object)}
+    >
       {approximate ? (
         <Text style={[styles.approx, { fontSize: Math.round(fontSize * 0.5), lineHeight: Math.round(fontSize * 0.9) }]} aria-hidden>
           {'\u2248'}

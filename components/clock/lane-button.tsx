@@ -92,16 +92,19 @@ export const LaneButton = memo(function LaneButton({ view, density, onTap, onUnd
 
   return (
     <View style={styles.column} testID={`lane-${k}`}>
-      <View style={[styles.card, !running && styles.cardDone, flash && styles.cardFlash]}>
+      {/* The button is the whole card, border included; the readouts are drawn over it. */}
+      <View style={styles.cardBox}>
         {running ? (
           <TapSurface
             testID={`lane-tap-${k}`}
             label={`${view.name}, ${where}: crossed the line`}
             hint="Tap as the skater's skate crosses the finish line"
             onTap={tap}
-            style={StyleSheet.absoluteFill}
+            style={[StyleSheet.absoluteFill, styles.card, flash && styles.cardFlash]}
           />
-        ) : null}
+        ) : (
+          <View style={[StyleSheet.absoluteFill, styles.card, styles.cardDone]} />
+        )}
         <View pointerEvents="none" style={styles.overlay}>
           <LaneReadouts
             readout={view.readout}
@@ -155,21 +158,19 @@ export const LaneButton = memo(function LaneButton({ view, density, onTap, onUnd
 });
 
 const styles = StyleSheet.create({
-  column: { flex: 1, minWidth: 0, gap: spacing.xs },
+  column: { flex: 1, minWidth: 0, gap: 6 },
+  cardBox: { flex: 1, minHeight: 120 },
   card: {
-    flex: 1,
-    minHeight: 120,
     borderRadius: radius.lg,
     borderWidth: 3,
     borderColor: colors.primary,
     backgroundColor: colors.surface,
-    overflow: 'hidden',
   },
   cardDone: { borderColor: colors.border, borderStyle: 'dashed', backgroundColor: colors.surfaceSunken },
   cardFlash: { backgroundColor: colors.infoSurface },
-  choose: { padding: spacing.sm, gap: spacing.xs, justifyContent: 'flex-start' },
-  overlay: { flex: 1 },
+  choose: { flex: 1, padding: spacing.sm, gap: spacing.xs, justifyContent: 'flex-start' },
+  overlay: { flex: 1, padding: 3, overflow: 'hidden' },
   prompt: { color: colors.primary, paddingBottom: spacing.xs },
-  controls: { flexDirection: 'row', gap: spacing.xs },
+  controls: { flexDirection: 'row', gap: 6 },
   control: { flex: 1, paddingHorizontal: spacing.xs },
 });

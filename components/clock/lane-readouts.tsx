@@ -36,8 +36,11 @@ export function LaneReadouts({
   testID: string;
 }) {
   const compact = density === 'compact';
-  const lapSize = density === 'roomy' ? 64 : compact ? 36 : 48;
-  const valueSize = density === 'roomy' ? 30 : compact ? 20 : 24;
+  // The last lap is the lane's largest figure; a lap of a minute or more ("1:02.31") gets a size
+  // that still fits the card's width.
+  const long = (readout.lastLap ?? '').length > 5;
+  const lapSize = density === 'roomy' ? 88 : compact ? (long ? 30 : 36) : long ? 46 : 56;
+  const valueSize = density === 'roomy' ? 34 : compact ? 20 : 28;
   const value = { fontSize: valueSize, lineHeight: Math.round(valueSize * 1.15) };
   return (
     <View style={[styles.wrap, compact && styles.wrapCompact]} testID={testID}>

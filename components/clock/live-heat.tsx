@@ -11,7 +11,7 @@
 import { memo, useEffect, useState, type ReactNode } from 'react';
 import { ScrollView, StyleSheet, View, useWindowDimensions } from 'react-native';
 
-import { Banner, Button, Text, colors, radius, spacing } from '../ui';
+import { Button, Text, colors, radius, spacing } from '../ui';
 import { ClockCaution } from './clock-caution';
 import { distanceLabel, trackLabel } from './clock-math';
 import { ElapsedClock } from './elapsed-clock';
@@ -44,10 +44,10 @@ export const LiveHeatView = memo(function LiveHeatView({ heat, lanes, wide, wake
   }, [confirmEnd]);
 
   // The clock's digits sized to the room beside the two small buttons (condensed figures are
-  // about half as wide as they are tall).
-  const contentWidth = wide ? width - 248 - 2 * spacing.xl : width - 2 * spacing.sm;
+  // a little under half as wide as they are tall).
+  const contentWidth = wide ? width - 248 - 2 * spacing.xl : width - 2 * spacing.xs;
   const room = wide ? Math.min(contentWidth * 0.55, 760) : contentWidth - 112;
-  const fontSize = Math.max(48, Math.min(wide ? 168 : 96, Math.floor(room / (clockChars(heat.distanceM) * 0.5))));
+  const fontSize = Math.max(48, Math.min(wide ? 140 : 96, Math.floor(room / (clockChars(heat.distanceM) * 0.45))));
   const group = lanes.length > 2;
   const density = wide ? (group ? 'pair' : 'roomy') : group ? 'compact' : 'pair';
 
@@ -55,9 +55,7 @@ export const LiveHeatView = memo(function LiveHeatView({ heat, lanes, wide, wake
     <View style={styles.top}>
       <View style={styles.clockCol}>
         <ElapsedClock startPerfTs={heat.startPerfTs} offsetMs={heat.offsetMs} running fontSize={fontSize} approximate={heat.resumed} />
-        <Text variant="caption" tone="muted" testID="clock-heat-what">
-          {`${distanceLabel(heat.distanceM)} · ${trackLabel(heat.track)}${heat.offsetMs ? ` · offset ${(heat.offsetMs / 1000).toFixed(2)} s` : ''}`}
-        </Text>
+        <InfoSlot heat={heat} wake={wake} />
       </View>
       <View style={styles.topButtons}>
         <Button
@@ -98,12 +96,17 @@ export const LiveHeatView = memo(function LiveHeatView({ heat, lanes, wide, wake
   const body = (
     <>
       {top}
-      <Notices resumed={heat.resumed} wake={wake} />
       {wide ? (
         <View style={styles.wideRow}>
           <View style={styles.wideLanes}>{lanesView}</View>
           {table ? (
-            <ScrollView style={styles.tablePane} contentContainerStyle={styles.tableContent} testID="clock-live-table">
+            <ScrollView
+              style={styles.tablePane}
+              contentContainerStyle={styles.tableContent}
+              testID="clock-live-table"
+              // It scrolls on its own: keyboard users reach it too.
+              {...({ tabIndex: 0, role: 'region', 'aria-label': 'Laps and splits so far' } as object)}
+            >
               {table}
             </ScrollView>
           ) : null}
@@ -115,15 +118,25 @@ export const LiveHeatView = memo(function LiveHeatView({ heat, lanes, wide, wake
     </>
   );
 
-  return (
-    <ScrollView style={styles.fill} contentContainerStyle={[styles.page, wide && styles.pageWide]} testID="clock-live">
+  // Wide: the page is exactly the window (the table pane scrolls on its own); a phone scrolls
+  // only if it is shorter than the layout needs.
+  return wide ? (
+    <View style={[styles.fill, styles.page, styles.pageWide]} testID="clock-live">
+      {body}
+    </View>
+  ) : (
+    <ScrollView style={styles.fill} contentContainerStyle={styles.page} testID="clock-live">
       {body}
     </ScrollView>
   );
 });
 
-/** The one-line slot under the clock: a notice, or the resumed / screen-awake state. Fixed height. */
-function Notices({ resumed, wake }: { resumed: boolean; wake: WakeState }) {
+/**
+ * Two lines under the clock, always the same height (nothing under a thumb moves when it
+ * changes): a notice (a double tap ignored, an undo) for a few seconds; otherwise the heat's
+ * distance, and that the clock was resumed or cannot keep the screen on.
+ */
+function InfoSlot({ heat, wake }: { heat: Heat; wake: WakeState }) {
   const notice = useClockUi((s) => s.notice);
   const clear = useClockUi((s) => s.clearNotice);
   useEffect(() => {
@@ -131,44 +144,53 @@ function Notices({ resumed, wake }: { resumed: boolean; wake: WakeState }) {
     const timer = setTimeout(clear, 4000);
     return () => clearTimeout(timer);
   }, [notice, clear]);
-  const line = notice
-    ? notice.text
-    : resumed
-      ? '\u2248 Resumed after a reload: saved crossings are exact; the clock now runs from the device time.'
-      : wake === 'unsupported' || wake === 'refused'
-        ? 'This browser cannot keep the screen on: keep it awake yourself.'
-        : '';
+  const what = `${distanceLabel(heat.distanceM)} · ${trackLabel(heat.track)}${heat.offsetMs ? ` · offset ${(heat.offsetMs / 1000).toFixed(2)} s` : ''}`;
+  const extra = heat.resumed
+    ? { id: 'clock-resumed', text: '\u2248 Resumed after a reload: saved times exact, clock from the device time.' }
+    : wake === 'unsupported' || wake === 'refused'
+      ? { id: 'clock-wake', text: 'This browser cannot keep the screen on: keep it awake.' }
+      : null;
   return (
-    <View style={styles.notice} role="status" aria-live="polite" testID="clock-notice">
-      {line ? (
-        notice?.kind === 'error' ? (
-          <Banner kind="error">{line}</Banner>
-        ) : (
-          <Text variant="caption" weight="bold" numberOfLines={2} testID={notice ? `clock-notice-${notice.kind}` : resumed ? 'clock-resumed' : 'clock-wake'}>
-            {line}
-          </Text>
-        )
-      ) : null}
+    <View style={styles.slot} role="status" aria-live="polite" testID="clock-notice">
+      {notice ? (
+        <Text
+          variant="caption"
+          weight="bold"
+          numberOfLines={2}
+          testID={`clock-notice-${notice.kind}`}
+          style={notice.kind === 'error' ? { color: colors.error } : undefined}
+        >
+          {notice.kind === 'error' ? `\u26A0 ${notice.text}` : notice.text}
+        </Text>
+      ) : extra ? (
+        <Text variant="caption" weight="bold" numberOfLines={2} testID={extra.id}>
+          {extra.text}
+        </Text>
+      ) : (
+        <Text variant="caption" tone="muted" numberOfLines={2} testID="clock-heat-what">
+          {what}
+        </Text>
+      )}
     </View>
   );
 }
 
 const styles = StyleSheet.create({
   fill: { flex: 1, backgroundColor: colors.background },
-  page: { flexGrow: 1, padding: spacing.sm, gap: spacing.xs },
+  page: { flexGrow: 1, padding: spacing.xs, gap: 6 },
   pageWide: { padding: spacing.xl, gap: spacing.md },
   top: { flexDirection: 'row', alignItems: 'center', gap: spacing.xs },
   clockCol: { flex: 1, minWidth: 0 },
   topButtons: { gap: spacing.xs, width: 104 },
   smallButton: { paddingHorizontal: spacing.xs },
-  notice: { minHeight: 40, justifyContent: 'center' },
+  slot: { height: 44, justifyContent: 'flex-start' },
   lanes: { flex: 1, flexDirection: 'row', gap: spacing.xs, minHeight: 360 },
   lanesGroup: { flexWrap: 'wrap', rowGap: spacing.xs },
   lanesWideGroup: { flexWrap: 'wrap', rowGap: spacing.md },
   cellPair: { flex: 1, minWidth: 0 },
   cellGroup: { width: '48.8%', height: '32%', minHeight: 180 },
   cellWideGroup: { width: '32%', height: '48%', minHeight: 260 },
-  wideRow: { flex: 1, flexDirection: 'row', gap: spacing.lg, minHeight: 520 },
+  wideRow: { flex: 1, flexDirection: 'row', gap: spacing.lg, minHeight: 420 },
   wideLanes: { flex: 2, minWidth: 0 },
   tablePane: {
     flex: 1,

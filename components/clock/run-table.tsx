@@ -114,11 +114,11 @@ export const RunTable = memo(function RunTable(props: RunTableProps) {
       )}
       {schedule ? (
         <Text variant="caption" tone="muted">
-          Gap: + behind the schedule, {'\u2212'} ahead of it. {'\u270B'} hand-timed.
+          Gap to the schedule: + behind, {'\u2212'} ahead.{rows.some((r) => r.handTimed) ? ' (hand): hand-timed.' : ''}
         </Text>
       ) : rows.some((r) => r.handTimed) ? (
         <Text variant="caption" tone="muted">
-          {'\u270B'} hand-timed.
+          (hand): hand-timed.
         </Text>
       ) : null}
 
@@ -142,8 +142,7 @@ export const RunTable = memo(function RunTable(props: RunTableProps) {
             <Button label="Add a missed crossing" variant="secondary" testID={`${testID}-add`} onPress={() => setAdding(true)} />
           )}
           <Button
-            label={`${first} on the Board`}
-            accessibilityLabel={`Open ${name} on the Board`}
+            label={`Open ${first} on the Board`}
             variant="quiet"
             testID={`${testID}-skater`}
             onPress={() => props.onOpenSkater(run.skaterId)}
@@ -191,8 +190,8 @@ function Row({
       <Cell first>
         {editable ? (
           <Button
-            label={`${row.name}${row.handTimed ? ' \u270B' : ''}`}
-            accessibilityLabel={`${row.name}${row.handTimed ? ' \u270B' : ''}: edit`}
+            label={`${row.name}${row.handTimed ? ' (hand)' : ''}`}
+            accessibilityLabel={`${row.name}${row.handTimed ? ' (hand)' : ''}: edit`}
             variant="quiet"
             testID={`${testID}-edit`}
             onPress={onOpen}
@@ -200,7 +199,7 @@ function Row({
           />
         ) : (
           <Text variant="caption" weight="bold">
-            {`${row.name}${row.handTimed ? ' \u270B' : ''}`}
+            {`${row.name}${row.handTimed ? ' (hand)' : ''}`}
           </Text>
         )}
       </Cell>
@@ -212,7 +211,7 @@ function Row({
         <Cell testID={`${testID}-gap`}>
           {row.gap ? (
             <Text variant="caption" weight="bold" style={[styles.figure, { color: row.gap.side === 'behind' ? '#7A2E00' : row.gap.side === 'ahead' ? '#0A3A7A' : colors.ink }]}>
-              {wide ? `${row.gap.text} ${row.gap.word}` : row.gap.text}
+              {row.gap.text}
             </Text>
           ) : (
             <Text variant="caption">—</Text>

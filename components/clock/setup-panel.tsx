@@ -56,6 +56,7 @@ export const SetupPanel = memo(function SetupPanel({
   onEditTarget,
   starting,
   wide,
+  inlineStart,
 }: {
   skaters: readonly Skater[];
   targets: readonly ClockTarget[] | undefined;
@@ -63,15 +64,15 @@ export const SetupPanel = memo(function SetupPanel({
   onEditTarget: (skaterId: string) => void;
   starting: boolean;
   wide: boolean;
+  /** The Start button inside the panel (wide); the phone keeps it in a bar at the bottom. */
+  inlineStart: boolean;
 }) {
   const setup = useClockUi((s) => s.setup);
   const patch = useClockUi((s) => s.patchSetup);
   const pick = useClockUi((s) => s.pickSkater);
   const swap = useClockUi((s) => s.swapLanes);
   const nameOf = (id: string | null) => skaters.find((s) => s.id === id)?.displayName ?? '';
-  const lanes = setupLanes(setup);
   const offset = setupOffset(setup);
-  const ready = lanes.length > 0 && !offset.error && !starting;
   const laneOf = (id: string) =>
     setup.mode === 'group'
       ? setup.group.includes(id)
@@ -88,7 +89,7 @@ export const SetupPanel = memo(function SetupPanel({
     if (setup.distanceM === 0) return null;
     return (
       <View style={styles.targetRow}>
-        <Text tone={t ? 'default' : 'muted'} style={styles.grow} testID={`setup-target-${skaterId}`}>
+        <Text tone={t ? 'default' : 'muted'} testID={`setup-target-${skaterId}`}>
           {t ? `Target ${formatRaceTime(t.targetMs)}, ${planWords(t)}` : 'No target for this distance'}
         </Text>
         <Button
@@ -115,161 +116,169 @@ export const SetupPanel = memo(function SetupPanel({
     );
   };
 
-  const startLabel =
-    lanes.length === 0
-      ? 'Start (pick a skater first)'
-      : `Start ${distanceLabel(setup.distanceM)}: ${lanes.map((l) => nameOf(l.skaterId)).join(', ')}`;
+  const offsetBlock = (
+    <View style={styles.stack}>
+      <ChoiceChips
+        label="Start signal"
+        value={setup.offsetMode}
+        onChange={(offsetMode) => patch({ offsetMode })}
+        choices={[
+          { value: 'none', label: 'Start seen (no offset)', testID: 'setup-offset-none' },
+          { value: 'gun', label: 'Gun from the far side', testID: 'setup-offset-gun' },
+          { value: 'direct', label: 'Set an offset', testID: 'setup-offset-direct' },
+        ]}
+        testID="setup-offset"
+      />
+      {setup.offsetMode === 'gun' ? (
+        <View style={styles.stack}>
+          <TextField
+            label="Distance to the starter (m)"
+            value={Number.isFinite(setup.gunDistanceM) ? String(setup.gunDistanceM) : ''}
+            onChangeText={(t) => patch({ gunDistanceM: t.trim() === '' ? Number.NaN : Number(t) })}
+            error={offset.error}
+            inputMode="numeric"
+            testID="setup-gun-distance"
+          />
+          {offset.error ? null : (
+            <Text testID="setup-gun-offset">
+              {`Adds ${formatRaceTime(offset.ms)} s: sound travels about ${soundSpeedMs()} m/s in ${GUN_AIR_C} °C rink air (about 0.3 s per 100 m).`}
+            </Text>
+          )}
+        </View>
+      ) : null}
+      {setup.offsetMode === 'direct' ? (
+        <TextField
+          label="Offset added to every time (s)"
+          value={setup.offsetText}
+          onChangeText={(offsetText) => patch({ offsetText })}
+          error={offset.error}
+          hint="The clock started this late after the real start."
+          inputMode="decimal"
+          testID="setup-offset-text"
+        />
+      ) : null}
+    </View>
+  );
 
+  const trackChips = (
+    <ChoiceChips
+      label="Track"
+      value={setup.track}
+      onChange={(track) => {
+        const distances = DISTANCES[track];
+        patch({ track, distanceM: distances.includes(setup.distanceM) ? setup.distanceM : 500 });
+      }}
+      choices={[
+        { value: 'long', label: 'Long track', testID: 'setup-track-long' },
+        { value: 'short', label: 'Short track', testID: 'setup-track-short' },
+      ]}
+      testID="setup-track"
+    />
+  );
+  const distanceChips = (
+    <ChoiceChips
+      label="Distance"
+      value={String(setup.distanceM)}
+      onChange={(d) => patch({ distanceM: Number(d) })}
+      choices={DISTANCES[setup.track].map((d) => ({ value: String(d), label: distanceLabel(d), testID: `setup-distance-${d}` }))}
+      testID="setup-distance"
+    />
+  );
+  const whoChips = (
+    <ChoiceChips
+      label="Who"
+      value={setup.mode}
+      onChange={(mode) => patch({ mode })}
+      choices={[
+        { value: 'pair', label: 'A pair (inner, outer)', testID: 'setup-mode-pair' },
+        { value: 'group', label: `A group (up to ${GROUP_MAX})`, testID: 'setup-mode-group' },
+      ]}
+      testID="setup-mode"
+    />
+  );
+  const lanesBlock =
+    setup.mode === 'pair' ? (
+      <View style={wide ? styles.row : styles.stack}>
+        <View style={wide ? styles.col : undefined}>{slot('inner')}</View>
+        <View style={wide ? styles.col : undefined}>{slot('outer')}</View>
+      </View>
+    ) : (
+      <View style={wide ? styles.rowWrap : styles.stack} testID="setup-group">
+        {setup.group.length === 0 ? <Text tone="muted">Tap up to six skaters below.</Text> : null}
+        {setup.group.map((id, i) => (
+          <View key={id} style={[styles.slot, wide && styles.groupSlotWide]} testID={`setup-group-${i + 1}`}>
+            <Armband lane="group" number={i + 1} />
+            <Text weight="bold" variant="bodyLarge">
+              {nameOf(id)}
+            </Text>
+            {targetLine(id)}
+          </View>
+        ))}
+      </View>
+    );
+  const skatersBlock = (
+    <View style={styles.stack}>
+      <Text weight="bold">Skaters</Text>
+      {skaters.length === 0 ? (
+        <Text tone="muted" testID="setup-no-skaters">
+          No skaters on this device yet: add them under Squad (they arrive with the next sync).
+        </Text>
+      ) : (
+        <View style={styles.chips} role="group" aria-label="Skaters">
+          {skaters.map((s) => {
+            const where = laneOf(s.id);
+            return (
+              <Pressable
+                key={s.id}
+                testID={`setup-skater-${s.id}`}
+                role="button"
+                aria-pressed={!!where}
+                onPress={() => pick(s.id)}
+                style={[styles.chip, where ? styles.chipOn : null]}
+              >
+                <Text weight={where ? 'bold' : 'regular'} tone={where ? 'inverse' : 'default'}>
+                  {where ? `\u2713 ${s.displayName} \u00B7 ${where}` : s.displayName}
+                </Text>
+              </Pressable>
+            );
+          })}
+        </View>
+      )}
+      {setup.mode === 'pair' && (setup.inner || setup.outer) ? (
+        <Button label="Swap lanes" variant="secondary" testID="setup-swap" onPress={swap} style={styles.start} />
+      ) : null}
+    </View>
+  );
+  const start = inlineStart ? <StartButton skaters={skaters} onStart={onStart} starting={starting} /> : null;
+
+  // Wide: what to time across the top, the lanes side by side, the skaters, then the start signal
+  // beside the Start button. Phone: one column in the order a coach sets up.
+  if (wide) {
+    return (
+      <View style={styles.wrap} testID="clock-setup">
+        <View style={styles.row}>
+          <View style={styles.col}>{trackChips}</View>
+          <View style={styles.col}>{whoChips}</View>
+        </View>
+        {distanceChips}
+        {lanesBlock}
+        {skatersBlock}
+        <View style={styles.row}>
+          <View style={styles.col}>{offsetBlock}</View>
+          <View style={styles.col}>{start}</View>
+        </View>
+      </View>
+    );
+  }
   return (
     <View style={styles.wrap} testID="clock-setup">
-      <View style={wide ? styles.twoCols : styles.stack}>
-        <View style={[styles.stack, wide && styles.col]}>
-          <ChoiceChips
-            label="Track"
-            value={setup.track}
-            onChange={(track) => {
-              const distances = DISTANCES[track];
-              patch({ track, distanceM: distances.includes(setup.distanceM) ? setup.distanceM : 500 });
-            }}
-            choices={[
-              { value: 'long', label: 'Long track', testID: 'setup-track-long' },
-              { value: 'short', label: 'Short track', testID: 'setup-track-short' },
-            ]}
-            testID="setup-track"
-          />
-          <ChoiceChips
-            label="Distance"
-            value={String(setup.distanceM)}
-            onChange={(d) => patch({ distanceM: Number(d) })}
-            choices={DISTANCES[setup.track].map((d) => ({ value: String(d), label: distanceLabel(d), testID: `setup-distance-${d}` }))}
-            testID="setup-distance"
-          />
-          <ChoiceChips
-            label="Who"
-            value={setup.mode}
-            onChange={(mode) => patch({ mode })}
-            choices={[
-              { value: 'pair', label: 'A pair (inner, outer)', testID: 'setup-mode-pair' },
-              { value: 'group', label: `A group (up to ${GROUP_MAX})`, testID: 'setup-mode-group' },
-            ]}
-            testID="setup-mode"
-          />
-        </View>
-
-        <View style={[styles.stack, wide && styles.col]}>
-          {setup.mode === 'pair' ? (
-            <View style={styles.stack}>
-              {slot('inner')}
-              {slot('outer')}
-              {setup.inner || setup.outer ? (
-                <Button label="Swap lanes" variant="secondary" testID="setup-swap" onPress={swap} style={styles.start} />
-              ) : null}
-            </View>
-          ) : (
-            <View style={styles.stack} testID="setup-group">
-              {setup.group.length === 0 ? <Text tone="muted">Tap up to six skaters below.</Text> : null}
-              {setup.group.map((id, i) => (
-                <View key={id} style={styles.slot} testID={`setup-group-${i + 1}`}>
-                  <Armband lane="group" number={i + 1} />
-                  <Text weight="bold" variant="bodyLarge">
-                    {nameOf(id)}
-                  </Text>
-                  {targetLine(id)}
-                </View>
-              ))}
-            </View>
-          )}
-
-          <View style={styles.stack}>
-            <Text weight="bold">Skaters</Text>
-            {skaters.length === 0 ? (
-              <Text tone="muted" testID="setup-no-skaters">
-                No skaters on this device yet: add them under Squad (they arrive with the next sync).
-              </Text>
-            ) : (
-              <View style={styles.chips} role="group" aria-label="Skaters">
-                {skaters.map((s) => {
-                  const where = laneOf(s.id);
-                  return (
-                    <Pressable
-                      key={s.id}
-                      testID={`setup-skater-${s.id}`}
-                      role="button"
-                      aria-pressed={!!where}
-                      onPress={() => pick(s.id)}
-                      style={[styles.chip, where ? styles.chipOn : null]}
-                    >
-                      <Text weight={where ? 'bold' : 'regular'} tone={where ? 'inverse' : 'default'}>
-                        {where ? `\u2713 ${s.displayName} \u00B7 ${where}` : s.displayName}
-                      </Text>
-                    </Pressable>
-                  );
-                })}
-              </View>
-            )}
-          </View>
-        </View>
-      </View>
-
-      <View style={styles.stack}>
-        <ChoiceChips
-          label="Start signal"
-          value={setup.offsetMode}
-          onChange={(offsetMode) => patch({ offsetMode })}
-          choices={[
-            { value: 'none', label: 'Start seen (no offset)', testID: 'setup-offset-none' },
-            { value: 'gun', label: 'Gun from the far side', testID: 'setup-offset-gun' },
-            { value: 'direct', label: 'Set an offset', testID: 'setup-offset-direct' },
-          ]}
-          testID="setup-offset"
-        />
-        {setup.offsetMode === 'gun' ? (
-          <View style={styles.stack}>
-            <TextField
-              label="Distance to the starter (m)"
-              value={Number.isFinite(setup.gunDistanceM) ? String(setup.gunDistanceM) : ''}
-              onChangeText={(t) => patch({ gunDistanceM: t.trim() === '' ? Number.NaN : Number(t) })}
-              error={offset.error}
-              inputMode="numeric"
-              testID="setup-gun-distance"
-            />
-            {offset.error ? null : (
-              <Text testID="setup-gun-offset">
-                {`Adds ${formatRaceTime(offset.ms)} s: sound travels about ${soundSpeedMs()} m/s in ${GUN_AIR_C} °C rink air (about 0.3 s per 100 m).`}
-              </Text>
-            )}
-          </View>
-        ) : null}
-        {setup.offsetMode === 'direct' ? (
-          <TextField
-            label="Offset added to every time (s)"
-            value={setup.offsetText}
-            onChangeText={(offsetText) => patch({ offsetText })}
-            error={offset.error}
-            hint="The clock started this late after the real start."
-            inputMode="decimal"
-            testID="setup-offset-text"
-          />
-        ) : null}
-      </View>
-
-      <TapSurface
-        testID="clock-start"
-        label={startLabel}
-        hint="Tap on the gun. The time is taken at the touch."
-        disabled={!ready}
-        onTap={onStart}
-        style={[styles.startButton, !ready && styles.startOff]}
-      >
-        <View pointerEvents="none" style={styles.startInner}>
-          <Text style={[styles.startWord, !ready && styles.startWordOff]}>Start</Text>
-        </View>
-      </TapSurface>
-      <Text tone="muted" variant="caption" testID="clock-start-note">
-        {lanes.length === 0
-          ? 'Pick at least one skater to start.'
-          : `${distanceLabel(setup.distanceM)}, ${setup.track} track: ${lanes.map((l) => `${nameOf(l.skaterId)} (${l.lane === 'group' ? 'group' : l.lane})`).join(', ')}${offset.ms ? ` · offset ${formatRaceTime(offset.ms)} s` : ''}. Tap Start on the gun.`}
-      </Text>
+      {trackChips}
+      {distanceChips}
+      {whoChips}
+      {lanesBlock}
+      {skatersBlock}
+      {offsetBlock}
+      {start}
     </View>
   );
 });
@@ -277,8 +286,10 @@ export const SetupPanel = memo(function SetupPanel({
 const styles = StyleSheet.create({
   wrap: { gap: spacing.lg },
   stack: { gap: spacing.sm },
-  twoCols: { flexDirection: 'row', gap: spacing.xl, alignItems: 'flex-start' },
+  row: { flexDirection: 'row', gap: spacing.lg, alignItems: 'flex-start' },
+  rowWrap: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.sm },
   col: { flex: 1, minWidth: 0 },
+  groupSlotWide: { width: '31%' },
   grow: { flex: 1 },
   slot: {
     gap: spacing.xxs,
@@ -289,7 +300,7 @@ const styles = StyleSheet.create({
     backgroundColor: colors.surface,
   },
   slotOuter: {},
-  targetRow: { flexDirection: 'row', alignItems: 'center', flexWrap: 'wrap', gap: spacing.xs },
+  targetRow: { alignItems: 'flex-start' },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
   chip: {
     minHeight: tapTarget,
@@ -311,6 +322,63 @@ const styles = StyleSheet.create({
   },
   startOff: { backgroundColor: colors.surfaceSunken, borderWidth: 2, borderColor: colors.border, borderStyle: 'dashed' },
   startInner: { alignItems: 'center' },
-  startWord: { fontSize: 44, lineHeight: 52, color: colors.onPrimary, fontWeight: '700' },
+  startCompact: { minHeight: 72 },
+  startWord: { fontSize: 44, lineHeight: 52, color: colors.onPrimary },
   startWordOff: { color: colors.inkMuted },
+});
+
+/**
+ * The big Start: fires on touch-down with the event's own time (it is the gun). Says what will be
+ * timed under it, so a glance confirms the distance and who is in which lane.
+ */
+export const StartButton = memo(function StartButton({
+  skaters,
+  onStart,
+  starting,
+  compact = false,
+}: {
+  skaters: readonly Skater[];
+  onStart: (timeStamp: number) => void;
+  starting: boolean;
+  compact?: boolean;
+}) {
+  const setup = useClockUi((s) => s.setup);
+  const nameOf = (id: string | null) => skaters.find((s) => s.id === id)?.displayName ?? '';
+  const lanes = setupLanes(setup);
+  const offset = setupOffset(setup);
+  const ready = lanes.length > 0 && !offset.error && !starting;
+  const startLabel =
+    lanes.length === 0
+      ? 'Start (pick a skater first)'
+      : `Start ${distanceLabel(setup.distanceM)}: ${lanes.map((l) => nameOf(l.skaterId)).join(', ')}`;
+  const note = (
+    <Text tone="muted" variant="caption" testID="clock-start-note" numberOfLines={compact ? 2 : undefined}>
+      {lanes.length === 0
+        ? 'Pick at least one skater to start.'
+        : `${distanceLabel(setup.distanceM)}, ${setup.track} track: ${lanes.map((l) => `${nameOf(l.skaterId)} (${l.lane === 'group' ? 'group' : l.lane})`).join(', ')}${offset.ms ? ` · offset ${formatRaceTime(offset.ms)} s` : ''}. Tap Start on the gun.`}
+    </Text>
+  );
+  const button = (
+    <TapSurface
+      testID="clock-start"
+      label={startLabel}
+      hint="Tap on the gun. The time is taken at the touch."
+      disabled={!ready}
+      onTap={onStart}
+      style={[styles.startButton, compact && styles.startCompact, !ready && styles.startOff]}
+    >
+      <View pointerEvents="none" style={styles.startInner}>
+        <Text weight="bold" style={[styles.startWord, !ready && styles.startWordOff]}>
+          Start
+        </Text>
+      </View>
+    </TapSurface>
+  );
+  return (
+    <View style={styles.stack}>
+      {compact ? note : null}
+      {button}
+      {compact ? null : note}
+    </View>
+  );
 });

@@ -5,10 +5,11 @@
  * rink without a network. On a phone one column; from 1024 px the days sit in a side pane and the
  * cues beside them.
  */
-import { useQueryClient } from '@tanstack/react-query';
+import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { useMemo, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
+import { targetsQuery, useSkaterRuns, type Target } from '../../store/clock';
 import { useConnectivity } from '../../store/connectivity';
 import { useActiveMembership, useSession } from '../../store/session';
 import { runSync } from '../../store/sync-status';
@@ -19,6 +20,7 @@ import { DayHeader, RecentDays } from './day-chooser';
 import { groupByPhase, longDay, offeredDays, plural, shortDay, spokenScript } from './format';
 import { NoteCard } from './note-card';
 import { ReadAloud } from './read-aloud';
+import { RunList } from './run-list';
 import { SafetyNote } from './safety-note';
 import { SyncLine } from './sync-line';
 
@@ -45,6 +47,18 @@ export function TodayScreen() {
   const days = useSkaterDays(teamId, skaterId);
   const notes = useSkaterNotes(teamId, skaterId, selected);
   const acknowledge = useAcknowledge();
+  // The day's timed runs, shown beside the cues (the skater's own, pulled with the rest).
+  const runs = useSkaterRuns(teamId, skaterId, selected);
+  // Keyed under the today page's prefix, so its refresh after a sync re-reads the targets too.
+  const targetsRead = targetsQuery(teamId).queryFn as () => Promise<Target[]>;
+  const targets = useQuery({
+    queryKey: ['device', 'today', teamId, skaterId, 'targets'],
+    queryFn: () => targetsRead(),
+    networkMode: 'always',
+    staleTime: Infinity,
+    retry: false,
+    enabled: !!teamId && !!skaterId,
+  });
 
   const groups = useMemo(() => groupByPhase(notes.data ?? []), [notes.data]);
   const offered = useMemo(() => offeredDays(days.data ?? [], today, selected), [days.data, today, selected]);
@@ -148,6 +162,9 @@ export function TodayScreen() {
     </View>
   );
 
+  const runList = skaterId ? <RunList runs={runs.data ?? []} targets={targets.data} /> : null;
+  const hasRuns = (runs.data?.length ?? 0) > 0;
+
   const signOutButton = (
     <SignOutButton style={styles.start} />
   );
@@ -165,7 +182,14 @@ export function TodayScreen() {
           </View>
           <View style={styles.main} testID="today-main">
             <DayHeader {...chooserProps} wide />
-            {dayBody}
+            {hasRuns ? (
+              <View style={styles.mainRow}>
+                <View style={styles.main}>{dayBody}</View>
+                <View style={styles.runsPane}>{runList}</View>
+              </View>
+            ) : (
+              dayBody
+            )}
           </View>
         </View>
       </Screen>
@@ -181,6 +205,7 @@ export function TodayScreen() {
         <RecentDays {...chooserProps} wide={false} />
       </View>
       {dayBody}
+      {runList}
       <SafetyNote />
       {signOutButton}
     </Screen>
@@ -217,4 +242,7 @@ const styles = StyleSheet.create({
     backgroundColor: colors.surfaceSunken,
   },
   main: { flex: 1, minWidth: 0, gap: spacing.lg },
+  // Runs beside the cues: the cues keep the wider column.
+  mainRow: { flexDirection: 'row', alignItems: 'flex-start', gap: spacing.lg },
+  runsPane: { width: 420 },
 });
