@@ -6,7 +6,7 @@
  */
 import { z } from 'zod';
 import { phaseSchema } from '../cues';
-import { isoWeekSchema, MAX_REVIEW_WEEKS, weekSpan } from '../weeks';
+import { isIsoWeek, isoWeekSchema, MAX_REVIEW_WEEKS, weekSpan } from '../weeks';
 
 /** ?from=YYYY-Www&to=YYYY-Www, both optional (the default is the last 8 weeks of the team's zone). */
 export const reviewRangeQuerySchema = z
@@ -14,7 +14,8 @@ export const reviewRangeQuerySchema = z
   .partial()
   .strict()
   .superRefine((value, ctx) => {
-    if (value.from && value.to) {
+    // The week checks above report a week that does not exist; the span needs two real ones.
+    if (value.from && value.to && isIsoWeek(value.from) && isIsoWeek(value.to)) {
       const span = weekSpan(value.from, value.to);
       if (span < 1) ctx.addIssue({ code: 'custom', path: ['from'], message: `from (${value.from}) must not be after to (${value.to})` });
       else if (span > MAX_REVIEW_WEEKS) {
@@ -25,9 +26,10 @@ export const reviewRangeQuerySchema = z
 export type ReviewRangeQuery = z.infer<typeof reviewRangeQuerySchema>;
 
 /** A group of the team by id, 'all' (the whole team) or 'none' (skaters in no group). */
-export const reviewGroupSchema = z.union([z.literal('all'), z.literal('none'), z.uuid()], {
-  error: "groupId must be a group's id, 'all' or 'none'",
-});
+const groupMessage = "groupId must be a group's id, 'all' or 'none'";
+export const reviewGroupSchema = z
+  .string({ error: groupMessage })
+  .refine((value) => value === 'all' || value === 'none' || z.uuid().safeParse(value).success, { error: groupMessage });
 export type ReviewGroup = z.infer<typeof reviewGroupSchema>;
 
 /** ?groupId=… for the one-week view (default: the whole team). */
