@@ -5,7 +5,8 @@
  */
 import { getISOWeek, getISOWeekYear } from 'date-fns';
 import { TZDate } from '@date-fns/tz';
-import { trendOf } from '../../server/services/review/trend';
+import type { ReviewTrend } from '../../shared/schemas/review';
+import { trendOf, type WeekCount } from '../../server/services/review/trend';
 import {
   addIsoWeeks,
   canonicalTimeZone,
@@ -158,7 +159,7 @@ describe('time zone names', () => {
 describe('the review trend rule (last 4 weeks against the 4 before)', () => {
   const weeks = weeksBetween('2026-W01', '2026-W08');
   const at = (week: string, needsWork: number, good: number) => ({ week, needsWork, good });
-  it.each([
+  const cases: [ReviewTrend, WeekCount[], string][] = [
     ['fewer', [at('2026-W01', 4, 0), at('2026-W06', 1, 3)], 'share 100% -> 25%'],
     ['more', [at('2026-W02', 1, 3), at('2026-W08', 3, 0)], 'share 25% -> 100%'],
     ['steady', [at('2026-W03', 2, 2), at('2026-W07', 3, 2)], 'share 50% -> 60%'],
@@ -166,7 +167,8 @@ describe('the review trend rule (last 4 weeks against the 4 before)', () => {
     ['not enough data', [at('2026-W01', 5, 5), at('2026-W08', 1, 1)], 'only 2 marks lately'],
     ['not enough data', [at('2026-W08', 5, 0)], 'no marks before'],
     ['not enough data', [], 'no marks at all'],
-  ] as const)('%s when %#: %s', (trend, counts) => {
+  ];
+  it.each(cases)('%s: %j (%s)', (trend, counts) => {
     expect(trendOf(weeks, counts)).toBe(trend);
   });
 
