@@ -10,6 +10,7 @@ import request from 'supertest';
 import type { ReviewCell, ReviewMatrix, ReviewWeek } from '../../shared/schemas/review';
 import { addSkater, expectError, signUpCoach, startTestServer, type Coach, type TestServer } from './helpers';
 import { cueOf, deleteNotes, makeReviewTeam, pushNotes, review, type NoteAt, type ReviewTeam } from './review-helpers';
+import { pushOk, upsert } from './sync-helpers';
 
 let server: TestServer;
 let team: ReviewTeam;
@@ -70,6 +71,8 @@ beforeAll(async () => {
   [deletedId] = await pushNotes(app, team, team.headDevice, [{ skaterId: A, cueId: start, mark: nw, createdAt: at('2026-09-29', '07:00'), note: 'mis-tap' }]);
   await deleteNotes(app, team, team.headDevice, [deletedId]);
   await request(app).patch(`/api/teams/${team.teamId}/skaters/${skaterD.id}`).set(head.auth).send({ retired: true }).expect(200);
+  // The curve cue is archived since: its history stays in the review, flagged.
+  await pushOk(app, team.headDevice, team.teamId, [upsert(team.headDevice, 'cues', curve, { archived: true })]);
 
   // Another team, same weeks, its own skater: never in this team's counts.
   await pushNotes(app, other, other.headDevice, [
@@ -105,7 +108,7 @@ describe('one skater by ISO week', () => {
       // 4 of 5 marks needed work in W40-W43, 1 of 4 in W44-W47.
       trend: 'fewer',
     });
-    expect(body.rows[1]).toMatchObject({ phase: 'curve', counts: [{ week: '2026-W43', needsWork: 0, good: 2 }], totalGood: 2, trend: 'not enough data' });
+    expect(body.rows[1]).toMatchObject({ phase: 'curve', archived: true, counts: [{ week: '2026-W43', needsWork: 0, good: 2 }], totalGood: 2, trend: 'not enough data' });
   });
 
   it('the counts agree with the notes in the database (deleted ones left out)', async () => {
