@@ -16,7 +16,7 @@ const stopServer = () => server.stop();
 test.afterAll(stopServer);
 
 test('offline notes reach the server once; the skater reads and acknowledges; the coach sees it', async ({ browser }) => {
-  test.setTimeout(150_000);
+  test.setTimeout(300_000);
   await startServer();
   const { coach, skaters, cues } = await apiCoachWithSkaters(BASE, ['Jildou Kramer', 'Klaas Boonstra']);
   const [jildou, klaas] = skaters;
