@@ -110,6 +110,14 @@ export function useSkaterRuns(teamId: string, skaterId: string, day: string) {
   return useQuery({ ...skaterRunsQuery(teamId, skaterId, day), enabled: !!teamId && !!skaterId });
 }
 
+/**
+ * Now on the device's clock corrected by the server's: the time a stored run's startedAt is in.
+ * Rebuilding a running clock after a reload: elapsed = (await correctedNow()) - Date.parse(startedAt).
+ */
+export async function correctedNow(): Promise<number> {
+  return (await deviceStore()).correctedNow();
+}
+
 // ---- cache helpers ---------------------------------------------------------------------------
 
 /** How long the device must be free of clock writes before the outbox counts are re-read. */

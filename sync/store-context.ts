@@ -41,6 +41,11 @@ export interface StoreContext {
   tx<T>(work: () => Promise<T>): Promise<T>;
   /** Device time corrected by the server's, in ms: for instants and the rink day. */
   now(): number;
+  /**
+   * A moment read from the device's own clock elsewhere (Date.now(), an event's time), corrected
+   * the same way, so an instant a screen hands in is in the server's time like the store's own.
+   */
+  fromDeviceClock(ms: number): number;
   /** The next clock value of this device (strictly increasing). */
   tick(): string;
   /** This device's id (the node of its clock values). */

@@ -152,6 +152,7 @@ export class DeviceStore {
       tx: (work) => this.tx(work),
       now,
       tick: () => clock.now(),
+      fromDeviceClock: (ms) => ms + this.offset,
       deviceId: this.deviceId,
       mine: () => this.mine(),
       assertWriter: (userId) => this.assertWriter(userId),
@@ -161,6 +162,14 @@ export class DeviceStore {
       },
       sessionsQueued: this.sessionsQueued,
     };
+  }
+
+  /**
+   * Now, on the device's clock corrected by the server's (what the store stamps instants with).
+   * A run's startedAt is in this time: elapsed time since it is correctedNow() - startedAt.
+   */
+  correctedNow(): number {
+    return this.now();
   }
 
   get device(): string {

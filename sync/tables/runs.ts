@@ -84,7 +84,8 @@ function assertRunFits(run: Record<string, unknown>, id: string, teamId: string)
 /**
  * Starts a heat: one run per lane, every row and its outbox entry in one transaction. A lane
  * whose `targetMs` is left out takes the skater's target for the distance from the device (a
- * snapshot: changing the target later does not change the run); null means none.
+ * snapshot: changing the target later does not change the run); null means none. `startedAt` is
+ * read on the device's clock and stored corrected by the server's (see DeviceStore.correctedNow).
  */
 export async function startHeat(ctx: StoreContext, input: StartHeatInput): Promise<Run[]> {
   const heat = validate<HeatStart>(heatStartSchema, {
@@ -93,7 +94,10 @@ export async function startHeat(ctx: StoreContext, input: StartHeatInput): Promi
     ...(input.day !== undefined ? { day: input.day } : {}),
     runs: input.runs,
   });
-  const day = heat.day ?? localDay(Date.parse(heat.startedAt));
+  // The start tap was read on the device's own clock: in the server's time, like every instant
+  // the store writes (a phone running 10 minutes fast would otherwise start in the future).
+  const startedAt = new Date(ctx.fromDeviceClock(Date.parse(heat.startedAt))).toISOString();
+  const day = heat.day ?? localDay(Date.parse(startedAt));
   const createdAt = new Date(ctx.now()).toISOString();
   ctx.assertWriter(input.userId);
   return ctx.tx(async () => {
@@ -118,7 +122,7 @@ export async function startHeat(ctx: StoreContext, input: StartHeatInput): Promi
         distanceM: draft.distanceM,
         track: draft.track,
         lane: draft.lane,
-        startedAt: heat.startedAt,
+        startedAt,
         startOffsetMs: draft.startOffsetMs ?? 0,
         targetMs,
         status: 'running',

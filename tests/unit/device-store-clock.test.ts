@@ -97,6 +97,22 @@ describe('a heat on the device', () => {
     expect(await store.listRunsOnDay(TEAM, '2026-12-02')).toEqual([]);
   });
 
+  it('a phone whose clock runs 10 minutes fast stores the start in the server’s time (and says what now is in that time)', async () => {
+    const driver = await openMemoryDriver();
+    const fast = NOW + 600_000;
+    const store = await DeviceStore.open(driver, { now: () => fast });
+    await store.switchUser(COACH);
+    expect(await store.correctClock(async () => new Date(NOW).toISOString())).toBe(-600_000);
+    expect(store.correctedNow()).toBe(NOW);
+    // The screen reads the start tap on the phone's own clock.
+    const [run] = await store.startHeat({ teamId: TEAM, userId: COACH, heatId: uuidv7(), startedAt: new Date(fast - 60_000).toISOString(), runs: pair().slice(0, 1) });
+    expect(run.startedAt).toBe(new Date(NOW - 60_000).toISOString());
+    const [op] = await store.listOutbox();
+    expect(op.fields.startedAt).toBe(run.startedAt);
+    // Elapsed since the start, as a resumed clock rebuilds it: one minute.
+    expect(store.correctedNow() - Date.parse(run.startedAt)).toBe(60_000);
+  });
+
   it('free laps (0 m) and short-track half-lap distances are timed', async () => {
     const { store } = await openStore();
     const free = await store.startHeat({ teamId: TEAM, userId: COACH, heatId: uuidv7(), startedAt: STARTED_AT, runs: [{ skaterId: SKATERS[0], distanceM: 0, track: 'long', lane: 'group' }] });
