@@ -11,7 +11,20 @@ import { laneWord, type ClockLane } from './clock-math';
 /** Armband red: 6.1:1 on white, so the band's edge reads as a shape (non-text needs 3:1). */
 export const ARMBAND_RED = '#B3152B';
 
-export function Armband({ lane, number, size = 'md', testID }: { lane: ClockLane; number?: number; size?: 'sm' | 'md'; testID?: string }) {
+export function Armband({
+  lane,
+  number,
+  size = 'md',
+  bandOnly = false,
+  testID,
+}: {
+  lane: ClockLane;
+  number?: number;
+  size?: 'sm' | 'md';
+  /** A group's numbered band without the words (the name follows it); never for a lane colour. */
+  bandOnly?: boolean;
+  testID?: string;
+}) {
   const small = size === 'sm';
   const word = lane === 'group' ? `Skater ${number ?? ''}`.trim() : laneWord(lane);
   return (
@@ -33,9 +46,11 @@ export function Armband({ lane, number, size = 'md', testID }: { lane: ClockLane
           </Text>
         ) : null}
       </View>
-      <Text weight="bold" variant={small ? 'caption' : 'body'}>
-        {word}
-      </Text>
+      {bandOnly && lane === 'group' ? null : (
+        <Text weight="bold" variant={small ? 'caption' : 'body'}>
+          {word}
+        </Text>
+      )}
     </View>
   );
 }

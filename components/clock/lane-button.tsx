@@ -33,6 +33,8 @@ export type LaneView = {
 export type LaneButtonProps = {
   view: LaneView;
   density: Density;
+  /** Undo and Stop under the card (a group on a phone has one strip for all lanes instead). */
+  controls?: boolean;
   onTap: (runId: string, timeStamp: number) => void;
   onUndo: (runId: string) => void;
   onStop: (runId: string, reason: string) => void;
@@ -40,7 +42,7 @@ export type LaneButtonProps = {
   onResume: (runId: string) => void;
 };
 
-export const LaneButton = memo(function LaneButton({ view, density, onTap, onUndo, onStop, onFinish, onResume }: LaneButtonProps) {
+export const LaneButton = memo(function LaneButton({ view, density, controls = true, onTap, onUndo, onStop, onFinish, onResume }: LaneButtonProps) {
   const [choosing, setChoosing] = useState(false);
   const [flash, setFlash] = useState(false);
   const flashTimer = useRef<ReturnType<typeof setTimeout> | undefined>(undefined);
@@ -116,43 +118,45 @@ export const LaneButton = memo(function LaneButton({ view, density, onTap, onUnd
             status={status}
             testID={`lane-${k}`}
           />
-          {running ? (
+          {running && density !== 'compact' ? (
             <Text variant="caption" weight="bold" align="center" style={styles.prompt} aria-hidden>
               {`Tap as ${first} crosses`}
             </Text>
           ) : null}
         </View>
       </View>
-      <View style={styles.controls}>
-        <Button
-          label="Undo"
-          variant="secondary"
-          testID={`lane-${k}-undo`}
-          accessibilityLabel={`Undo ${first}’s last crossing`}
-          disabled={view.readout.crossings === 0 || view.status === 'stopped'}
-          onPress={() => onUndo(view.runId)}
-          style={styles.control}
-        />
-        {running ? (
+      {controls ? (
+        <View style={styles.controls}>
           <Button
-            label={view.free ? 'End' : 'Stop'}
+            label="Undo"
             variant="secondary"
-            testID={`lane-${k}-stop`}
-            accessibilityLabel={view.free ? `End ${first}’s laps` : `Stop ${first} (fall, disqualification…)`}
-            onPress={() => setChoosing(true)}
+            testID={`lane-${k}-undo`}
+            accessibilityLabel={`Undo ${first}’s last crossing`}
+            disabled={view.readout.crossings === 0 || view.status === 'stopped'}
+            onPress={() => onUndo(view.runId)}
             style={styles.control}
           />
-        ) : view.status === 'stopped' ? (
-          <Button
-            label="Resume"
-            variant="secondary"
-            testID={`lane-${k}-resume`}
-            accessibilityLabel={`Resume timing ${first}`}
-            onPress={() => onResume(view.runId)}
-            style={styles.control}
-          />
-        ) : null}
-      </View>
+          {running ? (
+            <Button
+              label={view.free ? 'End' : 'Stop'}
+              variant="secondary"
+              testID={`lane-${k}-stop`}
+              accessibilityLabel={view.free ? `End ${first}’s laps` : `Stop ${first} (fall, disqualification…)`}
+              onPress={() => setChoosing(true)}
+              style={styles.control}
+            />
+          ) : view.status === 'stopped' ? (
+            <Button
+              label="Resume"
+              variant="secondary"
+              testID={`lane-${k}-resume`}
+              accessibilityLabel={`Resume timing ${first}`}
+              onPress={() => onResume(view.runId)}
+              style={styles.control}
+            />
+          ) : null}
+        </View>
+      ) : null}
     </View>
   );
 });
@@ -169,7 +173,9 @@ const styles = StyleSheet.create({
   cardDone: { borderColor: colors.border, borderStyle: 'dashed', backgroundColor: colors.surfaceSunken },
   cardFlash: { backgroundColor: colors.infoSurface },
   choose: { flex: 1, padding: spacing.sm, gap: spacing.xs, justifyContent: 'flex-start' },
-  overlay: { flex: 1, padding: 3, overflow: 'hidden' },
+  // Drawn over the card, clipped to it: the lanes' heights come from the screen, never from
+  // their text (six lanes on a phone must share the room exactly).
+  overlay: { position: 'absolute', top: 0, right: 0, bottom: 0, left: 0, padding: 3, overflow: 'hidden' },
   prompt: { color: colors.primary, paddingBottom: spacing.xs },
   controls: { flexDirection: 'row', gap: 6 },
   control: { flex: 1, paddingHorizontal: spacing.xs },

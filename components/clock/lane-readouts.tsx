@@ -44,17 +44,33 @@ export function LaneReadouts({
   const value = { fontSize: valueSize, lineHeight: Math.round(valueSize * 1.15) };
   return (
     <View style={[styles.wrap, compact && styles.wrapCompact]} testID={testID}>
-      <View style={styles.head}>
-        <Armband lane={lane} number={number} size={compact ? 'sm' : 'md'} />
-      </View>
-      <Text weight="bold" variant={compact ? 'body' : 'title'} numberOfLines={compact ? 1 : 2} testID={`${testID}-name`}>
-        {name}
-      </Text>
+      {compact ? (
+        // One line: the numbered band and the name.
+        <View style={styles.head}>
+          <Armband lane={lane} number={number} size="sm" bandOnly />
+          <Text weight="bold" numberOfLines={1} style={styles.grow} testID={`${testID}-name`}>
+            {name}
+          </Text>
+        </View>
+      ) : (
+        <>
+          <View style={styles.head}>
+            <Armband lane={lane} number={number} size="md" />
+          </View>
+          <Text weight="bold" variant="title" numberOfLines={2} testID={`${testID}-name`}>
+            {name}
+          </Text>
+        </>
+      )}
 
       <View>
-        <Text variant="caption" tone="muted" testID={`${testID}-section`}>
-          {readout.lastName ? `${readout.lastName}${readout.lastName === 'Opener' || readout.lastName === 'Finish' ? '' : ' time'}` : 'Waiting for the first crossing'}
-        </Text>
+        {compact ? null : (
+          <Text variant="caption" tone="muted" testID={`${testID}-section`} numberOfLines={1}>
+            {readout.lastName
+              ? `${readout.lastName}${readout.lastName === 'Opener' || readout.lastName === 'Finish' ? '' : ' time'}`
+              : 'Waiting for the first crossing'}
+          </Text>
+        )}
         <Text style={[styles.lap, { fontSize: lapSize, lineHeight: Math.round(lapSize * 1.05) }]} testID={`${testID}-lap`}>
           {readout.lastLap ?? '—'}
         </Text>
@@ -118,7 +134,8 @@ export function LaneReadouts({
 const styles = StyleSheet.create({
   wrap: { gap: spacing.xxs, padding: spacing.sm, flexGrow: 1 },
   wrapCompact: { padding: spacing.xs, gap: 0 },
-  head: { flexDirection: 'row', alignItems: 'center', justifyContent: 'space-between' },
+  head: { flexDirection: 'row', alignItems: 'center', gap: spacing.xs },
+  grow: { flex: 1, minWidth: 0 },
   lap: { fontFamily: fonts.numbers, color: colors.ink },
   line: { flexDirection: 'row', alignItems: 'baseline', flexWrap: 'wrap', columnGap: spacing.xs },
   value: { fontFamily: fonts.numbers, color: colors.ink },

@@ -15,6 +15,7 @@ import { Button, Text, colors, radius, spacing } from '../ui';
 import { ClockCaution } from './clock-caution';
 import { distanceLabel, trackLabel } from './clock-math';
 import { ElapsedClock } from './elapsed-clock';
+import { GroupControls } from './group-controls';
 import { LaneButton, type LaneButtonProps, type LaneView } from './lane-button';
 import { useClockUi, type LiveHeat as Heat } from './use-clock';
 import type { WakeState } from './wake-lock';
@@ -39,7 +40,7 @@ export const LiveHeatView = memo(function LiveHeatView({ heat, lanes, wide, wake
   const [confirmEnd, setConfirmEnd] = useState(false);
   useEffect(() => {
     if (!confirmEnd) return;
-    const timer = setTimeout(() => setConfirmEnd(false), 4000);
+    const timer = setTimeout(() => setConfirmEnd(false), 8000);
     return () => clearTimeout(timer);
   }, [confirmEnd]);
 
@@ -49,7 +50,7 @@ export const LiveHeatView = memo(function LiveHeatView({ heat, lanes, wide, wake
   const room = wide ? Math.min(contentWidth * 0.55, 760) : contentWidth - 112;
   const fontSize = Math.max(48, Math.min(wide ? 140 : 96, Math.floor(room / (clockChars(heat.distanceM) * 0.45))));
   const group = lanes.length > 2;
-  const density = wide ? (group ? 'pair' : 'roomy') : group ? 'compact' : 'pair';
+  const density = group ? 'compact' : wide ? 'roomy' : 'pair';
 
   const top = (
     <View style={styles.top}>
@@ -83,11 +84,22 @@ export const LiveHeatView = memo(function LiveHeatView({ heat, lanes, wide, wake
     </View>
   );
 
+  // A group: rows of two (phone) or three (wide) equal cells that share the height.
+  const perRow = group ? (wide ? 3 : 2) : lanes.length;
+  const rows: LaneView[][] = [];
+  for (let i = 0; i < lanes.length; i += perRow) rows.push(lanes.slice(i, i + perRow));
+  const strip = group && !wide;
   const lanesView = (
-    <View style={[styles.lanes, group && !wide && styles.lanesGroup, group && wide && styles.lanesWideGroup]} testID="clock-lanes">
-      {lanes.map((view) => (
-        <View key={view.runId} style={group ? (wide ? styles.cellWideGroup : styles.cellGroup) : styles.cellPair}>
-          <LaneButton view={view} density={density} {...actions} />
+    <View style={styles.lanes} testID="clock-lanes">
+      {rows.map((row, r) => (
+        <View key={r} style={styles.laneRow}>
+          {row.map((view) => (
+            <View key={view.runId} style={styles.cell}>
+              <LaneButton view={view} density={density} controls={!strip} {...actions} />
+            </View>
+          ))}
+          {/* An odd last row keeps its cells the width of the others. */}
+          {row.length < perRow ? Array.from({ length: perRow - row.length }, (_, k) => <View key={`gap-${k}`} style={styles.cell} />) : null}
         </View>
       ))}
     </View>
@@ -114,6 +126,9 @@ export const LiveHeatView = memo(function LiveHeatView({ heat, lanes, wide, wake
       ) : (
         lanesView
       )}
+      {strip ? (
+        <GroupControls lanes={lanes} onUndo={actions.onUndo} onStop={actions.onStop} onFinish={actions.onFinish} onResume={actions.onResume} />
+      ) : null}
       <ClockCaution short />
     </>
   );
@@ -184,12 +199,9 @@ const styles = StyleSheet.create({
   topButtons: { gap: spacing.xs, width: 104 },
   smallButton: { paddingHorizontal: spacing.xs },
   slot: { height: 44, justifyContent: 'flex-start' },
-  lanes: { flex: 1, flexDirection: 'row', gap: spacing.xs, minHeight: 360 },
-  lanesGroup: { flexWrap: 'wrap', rowGap: spacing.xs },
-  lanesWideGroup: { flexWrap: 'wrap', rowGap: spacing.md },
-  cellPair: { flex: 1, minWidth: 0 },
-  cellGroup: { width: '48.8%', height: '32%', minHeight: 180 },
-  cellWideGroup: { width: '32%', height: '48%', minHeight: 260 },
+  lanes: { flex: 1, gap: 6, minHeight: 360 },
+  laneRow: { flex: 1, flexDirection: 'row', gap: spacing.xs },
+  cell: { flex: 1, minWidth: 0 },
   wideRow: { flex: 1, flexDirection: 'row', gap: spacing.lg, minHeight: 420 },
   wideLanes: { flex: 2, minWidth: 0 },
   tablePane: {

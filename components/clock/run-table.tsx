@@ -36,9 +36,13 @@ export type RunTableProps = RunTableActions & {
   testID: string;
 };
 
-const statusWords = (run: ClockRun, finalSplit: string | null) =>
+const statusWords = (run: ClockRun, finalSplit: string | null, rows: readonly TableRow[]) =>
   run.status === 'finished'
-    ? `\u2713 Finished${finalSplit ? ` in ${finalSplit}` : ''}`
+    ? finalSplit
+      ? `\u2713 Finished in ${finalSplit}`
+      : rows.length > 0
+        ? `\u2713 Finished: ${rows.length} ${rows.length === 1 ? 'lap' : 'laps'} in ${rows[rows.length - 1].split}`
+        : '\u2713 Finished'
     : run.status === 'stopped'
       ? `\u25A0 Stopped: ${run.stopReason || 'no reason given'}`
       : '\u25B6 Running';
@@ -74,7 +78,7 @@ export const RunTable = memo(function RunTable(props: RunTableProps) {
         {`${distanceLabel(run.distanceM)} · ${trackLabel(run.track)}${run.startOffsetMs ? ` · start offset ${formatRaceTime(run.startOffsetMs)} s` : ''}`}
       </Text>
       <Text weight="bold" variant="bodyLarge" testID={`${testID}-status`}>
-        {statusWords(run, finalSplit)}
+        {statusWords(run, finalSplit, rows)}
       </Text>
       {run.targetMs ? (
         <Text tone="muted" testID={`${testID}-target`}>

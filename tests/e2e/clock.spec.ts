@@ -36,6 +36,10 @@ import {
 
 const server = ownServer(8471);
 const BASE = server.base;
+test.beforeAll(async () => {
+  test.setTimeout(60_000);
+  await server.start();
+});
 test.afterAll(() => server.stop());
 test.setTimeout(300_000);
 const OPEN_MS = 60_000;
@@ -114,7 +118,6 @@ async function setTarget(page: Page, skaterId: string, time: string, plan: 'even
 }
 
 test('a 1500 m pair timed at the boards, reloaded mid-race, finished, synced and read by the skater', async ({ browser }) => {
-  await server.start();
   const { coach, skaters, cues } = await apiCoachWithSkaters(BASE, ['Anna Reede', 'Bram Tolsma', 'Cor Wijnstra']);
   const [anna, bram] = skaters;
 
@@ -274,4 +277,70 @@ test('a 1500 m pair timed at the boards, reloaded mid-race, finished, synced and
 
   await coachContext.close();
   await skaterContext.close();
+});
+
+test('a training group of six on free laps: six lane buttons on one phone screen, a stop, and End', async ({ browser }) => {
+  const names = ['Dieuwke Hoekstra', 'Eelke Postma', 'Femke Jellema', 'Gerben Kuipers', 'Hylke Bosma', 'Ilse de Vries'];
+  const { coach, skaters } = await apiCoachWithSkaters(BASE, names);
+  const context = await browser.newContext({ viewport: PHONE });
+  const page = await context.newPage();
+  const errors = watchErrors(page);
+  await signInThroughForm(page, BASE, coach.email, coach.password, OPEN_MS);
+  await page.getByTestId('tab-clock').click();
+  await expect(page.getByTestId('clock-setup')).toBeVisible({ timeout: OPEN_MS });
+  await page.getByTestId('setup-distance-0').click();
+  await page.getByTestId('setup-mode-group').click();
+  for (const s of skaters) await page.getByTestId(`setup-skater-${s.id}`).click();
+  for (let i = 1; i <= 6; i += 1) await expect(page.getByTestId(`setup-group-${i}`)).toContainText(names[i - 1]);
+
+  await touchAt(page, 'clock-start', await page.evaluate(() => performance.now()));
+  await expect(page.getByTestId('clock-live')).toBeVisible();
+  // Six lane buttons, each whole on the screen above the tab bar, together half the screen or more.
+  const bar = await page.getByTestId('tab-clock').boundingBox();
+  let area = 0;
+  for (let i = 1; i <= 6; i += 1) {
+    const box = await page.getByTestId(`lane-tap-group-${i}`).boundingBox();
+    expect(box, `lane ${i} has a box`).not.toBeNull();
+    expect(box!.y + box!.height).toBeLessThanOrEqual((bar?.y ?? PHONE.height) + 0.5);
+    expect(box!.x + box!.width).toBeLessThanOrEqual(PHONE.width + 0.5);
+    area += box!.width * box!.height;
+    await expect(page.getByTestId(`lane-group-${i}-name`)).toHaveText(names[i - 1]);
+  }
+  expect(area, `group lane buttons cover ${Math.round(area)} px²`).toBeGreaterThanOrEqual(0.5 * PHONE.width * PHONE.height);
+  await expectButtonsAtLeast48(page);
+
+  // Free laps: each crossing is a 400 m lap, counted up.
+  const start = await anchor(page);
+  for (const [i, at] of [[1, 40_000], [2, 40_300], [1, 72_000], [3, 41_000]] as const) await touchAt(page, `lane-tap-group-${i}`, start + at);
+  await expect(page.getByTestId('lane-group-1-lap')).toHaveText('32.00');
+  await expect(page.getByTestId('lane-group-1-split')).toHaveText('1:12.00');
+  await expect(page.getByTestId('lane-group-1-togo')).toHaveText('2 laps');
+  await expect(page.getByTestId('lane-group-2-lap')).toHaveText('40.30');
+  await expect(page.getByTestId('lane-group-3-lap')).toHaveText('41.00');
+  await expect(page.getByTestId('lane-group-3-togo')).toHaveText('1 lap');
+
+  // One strip for the group's Undo and Stop: Stop…, the skater's number, the reason.
+  await page.getByTestId('group-stop').click();
+  await page.getByTestId('group-stop-4').click();
+  await page.getByTestId('group-reason-fall').click();
+  await expect(page.getByTestId('group-controls')).toBeVisible();
+  // Undo…, number 3: Femke's only crossing is taken back.
+  await page.getByTestId('group-undo').click();
+  await page.getByTestId('group-undo-3').click();
+  await expect(page.getByTestId('lane-group-3-togo')).toHaveText('0 laps');
+  await expect(page.getByTestId('lane-group-4-status')).toHaveText('\u25A0 Stopped: Fall');
+  await checkBoth(page, 'clock live group', () => expect(page.getByTestId('lane-tap-group-1')).toBeVisible());
+  await shoot(page, 'clock-live-group');
+
+  // End asks once more, then finishes everyone still skating free laps.
+  await page.getByTestId('clock-end').click();
+  await expect(page.getByTestId('clock-end')).toHaveText('Sure? End');
+  await page.getByTestId('clock-end').click();
+  await expect(page.getByTestId('clock-last-heat')).toBeVisible();
+  await expect(page.getByTestId('run-group-1-status')).toHaveText('\u2713 Finished: 2 laps in 1:12.00');
+  await expect(page.getByTestId('run-group-1-row-1-lap')).toHaveText('32.00');
+  await expect(page.getByTestId('run-group-1-row-1-kmh')).toHaveText('45.00');
+  await expect(page.getByTestId('run-group-4-status')).toHaveText('\u25A0 Stopped: Fall');
+  errors();
+  await context.close();
 });
