@@ -1,0 +1,121 @@
+/**
+ * Cues x ISO weeks as a table (one skater, or summed over a group): rows grouped under their
+ * phase's heading, a column per week of the range (empty weeks too), and a trend sign with its
+ * word per row. Screen readers get real table semantics (table, rows, column and row headers,
+ * cells); a cell that can be opened is a button named with its cue, week and both counts.
+ */
+import { Fragment } from 'react';
+import { ScrollView, StyleSheet, View } from 'react-native';
+
+import { phaseLabels, phases } from '../../shared/cues';
+import type { ReviewMatrix, ReviewRow } from '../../shared/schemas/review';
+import { Text, colors, spacing } from '../ui';
+import { CELL_WIDTH, CountCell } from './count-cell';
+import { trendSigns, weekHeading } from './format';
+
+const CUE_WIDTH = 196;
+const TREND_WIDTH = 132;
+
+export type CellPick = { cueId: string; cueLabel: string; week: string };
+
+export type WeekMatrixProps = {
+  matrix: ReviewMatrix;
+  /** What the table shows ("Anna Reede", "All skaters"), for its accessible name. */
+  subject: string;
+  /** When given, cells with marks open their notes. */
+  onOpenCell?: (pick: CellPick) => void;
+  selected?: { cueId: string; week: string } | null;
+};
+
+const countOf = (row: ReviewRow, week: string) => row.counts.find((c) => c.week === week) ?? { needsWork: 0, good: 0 };
+
+export function WeekMatrix({ matrix, subject, onOpenCell, selected }: WeekMatrixProps) {
+  const byPhase = phases.map((phase) => ({ phase, rows: matrix.rows.filter((r) => r.phase === phase) })).filter((p) => p.rows.length);
+  const colspan = matrix.weeks.length + 2;
+  return (
+    <ScrollView horizontal style={styles.scroll} contentContainerStyle={styles.scrollContent}>
+      <View role="table" aria-label={`Cues by week, ${subject}, ${matrix.from} to ${matrix.to}`} testID="review-matrix">
+        <View role="row" style={[styles.row, styles.headRow]}>
+          <View role="columnheader" style={styles.cueCell}>
+            <Text weight="bold">Cue</Text>
+          </View>
+          {matrix.weeks.map((week) => {
+            const head = weekHeading(week);
+            return (
+              <View role="columnheader" key={week} style={styles.weekHead} aria-label={`Week ${week}`} testID={`review-week-head-${week}`}>
+                <Text weight="bold" align="center" aria-hidden>
+                  {head.number}
+                </Text>
+                <Text variant="caption" tone="muted" align="center" aria-hidden>
+                  {head.monday}
+                </Text>
+              </View>
+            );
+          })}
+          <View role="columnheader" style={styles.trendCell}>
+            <Text weight="bold">Trend</Text>
+          </View>
+        </View>
+        {byPhase.map(({ phase, rows }) => (
+          <Fragment key={phase}>
+            <View role="row" style={styles.phaseRow}>
+              <View role="rowheader" aria-colspan={colspan} style={styles.phaseCell} testID={`review-phase-${phase}`}>
+                <Text weight="bold" variant="bodyLarge">
+                  {phaseLabels[phase]}
+                </Text>
+              </View>
+            </View>
+            {rows.map((row) => {
+              const trend = trendSigns[row.trend];
+              return (
+                <View role="row" key={row.cueId} style={styles.row} testID={`review-row-${row.cueId}`}>
+                  <View role="rowheader" style={styles.cueCell}>
+                    <Text>{row.label}</Text>
+                    {row.archived ? (
+                      <Text variant="caption" tone="muted">
+                        (archived cue)
+                      </Text>
+                    ) : null}
+                  </View>
+                  {matrix.weeks.map((week) => {
+                    const count = countOf(row, week);
+                    return (
+                      <CountCell
+                        key={week}
+                        what={row.label}
+                        week={week}
+                        needsWork={count.needsWork}
+                        good={count.good}
+                        selected={selected?.cueId === row.cueId && selected.week === week}
+                        onPress={onOpenCell ? () => onOpenCell({ cueId: row.cueId, cueLabel: row.label, week }) : undefined}
+                        testID={`review-cell-${row.cueId}-${week}`}
+                      />
+                    );
+                  })}
+                  <View role="cell" style={styles.trendCell} testID={`review-trend-${row.cueId}`}>
+                    <Text weight="bold">
+                      <Text aria-hidden>{trend.glyph} </Text>
+                      {trend.word}
+                    </Text>
+                  </View>
+                </View>
+              );
+            })}
+          </Fragment>
+        ))}
+      </View>
+    </ScrollView>
+  );
+}
+
+const styles = StyleSheet.create({
+  scroll: { flexGrow: 0 },
+  scrollContent: { paddingBottom: spacing.xs },
+  row: { flexDirection: 'row', alignItems: 'center', borderBottomWidth: 1, borderBottomColor: colors.divider },
+  headRow: { borderBottomWidth: 2, borderBottomColor: colors.border },
+  phaseRow: { flexDirection: 'row', backgroundColor: colors.surfaceSunken },
+  phaseCell: { paddingVertical: spacing.xs, paddingHorizontal: spacing.xs, flex: 1 },
+  cueCell: { width: CUE_WIDTH, paddingHorizontal: spacing.xs, paddingVertical: spacing.xxs },
+  weekHead: { width: CELL_WIDTH, paddingVertical: spacing.xxs },
+  trendCell: { width: TREND_WIDTH, paddingHorizontal: spacing.xs },
+});
