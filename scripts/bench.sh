@@ -26,7 +26,7 @@ build_web
 )
 wait_http "http://127.0.0.1:$BENCH_PORT/api/health" "the bench server" "$DATA/bench-server.log"
 
-# BENCH_ONLY=sync|board|convergence runs one step (default: all of them).
+# BENCH_ONLY=sync|board|clock|convergence runs one step (default: all of them).
 step() { [ -z "${BENCH_ONLY:-}" ] || [ "$BENCH_ONLY" = "$1" ]; }
 
 if step sync; then
@@ -37,6 +37,11 @@ fi
 if step board; then
   log "board: 50,000 stored observations, 200 taps in two passes"
   BENCH_BASE_URL="http://127.0.0.1:$BENCH_PORT" tsx bench/board.ts
+fi
+
+if step clock; then
+  log "clock: a pair timed with touch taps, lanes 0.3 s apart (stored crossing vs event time, tap to lap shown)"
+  BENCH_BASE_URL="http://127.0.0.1:$BENCH_PORT" tsx bench/clock.ts
 fi
 
 if step convergence; then
