@@ -21,7 +21,7 @@ import {
 } from '../../store/sync-status';
 import { Banner, Button, Card, Heading, Text, colors, lastSyncText, radius, spacing, tapTarget } from '../ui';
 
-const tableWords: Record<string, string> = { observations: 'note', sessions: 'session', cues: 'cue' };
+const tableWords: Record<string, string> = { observations: 'note', sessions: 'session', cues: 'cue', runs: 'timed run', crossings: 'lap time', targets: 'target' };
 
 function useRefetchDevice() {
   const client = useQueryClient();
