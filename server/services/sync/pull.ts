@@ -1,6 +1,7 @@
 /**
  * GET /api/sync/pull: one page of changes and tombstones after the caller's cursor (shared/SYNC.md,
- * "Pull"), across observations, sessions, cues, skaters and groups, in server_seq order.
+ * "Pull"), across every synced table (observations, sessions, cues, skaters, groups, and the
+ * clock's runs, crossings and targets), in server_seq order.
  *
  *   Pull.1  a cursor older than the team's sync horizon (tombstones purged since) answers 410
  *           resync_required; cursor 0 is a full sync and is always valid.
@@ -10,7 +11,8 @@
  *           come back as plain columns; the fields are assembled here (cheaper than JSON in SQL).
  *   Pull.3  role filter inside the SQL: coaches get the team; a skater (or the guardian of one)
  *           gets only that skater's observations, with the note text blanked unless shared, their
- *           own profile and group, and the team's sessions and cues.
+ *           own profile and group, their own runs, the crossings of those runs and their own
+ *           targets, and the team's sessions and cues.
  *   Pull.4  `remaining` counts what is left after this page with the same filter, in the same
  *           snapshot (REPEATABLE READ, read only) as the page itself; a short page leaves 0.
  *
