@@ -225,7 +225,8 @@ export function ClockScreen() {
     <View style={styles.fill} testID="clock-home">
       <Screen edges={[]}>
         <Heading>Clock</Heading>
-        <ClockCaution />
+        {/* One line while a finished heat's table is on show, so the times come first. */}
+        <ClockCaution short={!!shownHeatId} />
         {notice}
         {staleNote}
         {shownHeatId ? dayList : null}

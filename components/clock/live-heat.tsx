@@ -161,7 +161,7 @@ function InfoSlot({ heat, wake }: { heat: Heat; wake: WakeState }) {
   }, [notice, clear]);
   const what = `${distanceLabel(heat.distanceM)} · ${trackLabel(heat.track)}${heat.offsetMs ? ` · offset ${(heat.offsetMs / 1000).toFixed(2)} s` : ''}`;
   const extra = heat.resumed
-    ? { id: 'clock-resumed', text: '\u2248 Resumed after a reload: saved times exact, clock from the device time.' }
+    ? { id: 'clock-resumed', text: '\u2248 Resumed: saved times exact, clock from device time.' }
     : wake === 'unsupported' || wake === 'refused'
       ? { id: 'clock-wake', text: 'This browser cannot keep the screen on: keep it awake.' }
       : null;

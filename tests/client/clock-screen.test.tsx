@@ -223,6 +223,21 @@ describe('ClockScreen', () => {
     expect(mockCalls.record).toHaveBeenCalledTimes(3);
   });
 
+  it('gun from the far side: the sound delay (299 ms for 100 m of 5 °C air) is stored with the run and added to every crossing', async () => {
+    renderClock();
+    await waitFor(() => getByTestIdWeb('clock-setup'));
+    await fireWeb(getByTestIdWeb(`setup-skater-${ANNA}`), 'onPress');
+    await fireWeb(getByTestIdWeb('setup-offset-gun'), 'onPress');
+    await fireWeb(getByTestIdWeb('setup-gun-distance'), 'onChangeText', '100');
+    expect(text('setup-gun-offset')).toContain('Adds 0.29 s');
+    expect(text('setup-gun-offset')).toContain('334 m/s');
+    await touch('clock-start', GUN);
+    await waitFor(() => getByTestIdWeb('lane-tap-inner'));
+    expect(mockCalls.start.mock.calls[0][0].runs[0].startOffsetMs).toBe(299);
+    await touch('lane-tap-inner', GUN + 24_011);
+    expect(mockCalls.record).toHaveBeenLastCalledWith({ runId: expect.any(String), atMs: 24_310 });
+  });
+
   it('reads the splits aloud one at a time: the second lane waits for the first sentence', async () => {
     await startPair();
     await touch('lane-tap-inner', GUN + 24_310);

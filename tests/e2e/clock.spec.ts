@@ -192,9 +192,10 @@ test('a 1500 m pair timed at the boards, reloaded mid-race, finished, synced and
   // --- a reload mid-race: the heat comes back with every crossing, and carries on ---
   await page.reload();
   await expect(page.getByTestId('clock-live')).toBeVisible({ timeout: OPEN_MS });
-  await expect(page.getByTestId('clock-resumed')).toContainText('Resumed after a reload');
+  await expect(page.getByTestId('clock-resumed')).toContainText('Resumed: saved times exact');
   await expectLane(page, 'inner', ANNA, 1, '2 laps to go', '1:58.86');
   await expectLane(page, 'outer', BRAM, 1, '2 laps to go', '1:58.46');
+  await shoot(page, 'clock-resumed');
 
   await cross(page, 'outer', BRAM.cross[2]);
   await cross(page, 'inner', ANNA.cross[2]);
