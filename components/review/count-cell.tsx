@@ -10,7 +10,7 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { MarkShape, Text, colors, marks, radius, spacing } from '../ui';
 import { cellName } from './format';
 
-export const CELL_WIDTH = 76;
+export const CELL_WIDTH = 60;
 
 export type CountCellProps = {
   what: string;

@@ -19,7 +19,7 @@ export function shiftRange(range: { from: string; to: string }, weeks: number) {
   return isIsoWeek(from) && isIsoWeek(to) ? { from, to } : null;
 }
 
-export type RangeControlsProps = {
+export type RangeProps = {
   /** The range on screen (the server's answer). */
   shown: { from: string; to: string };
   /** This week in the team's zone: nothing later is shown. */
@@ -29,38 +29,18 @@ export type RangeControlsProps = {
   isDefault: boolean;
 };
 
-export function RangeControls({ shown, currentWeek, onRange, isDefault }: RangeControlsProps) {
+/** Earlier / the range shown / Later, above the table. */
+export function RangeNav({ shown, currentWeek, onRange, isDefault }: RangeProps) {
   const earlier = shiftRange(shown, -RANGE_STEP);
   const laterRaw = shiftRange(shown, RANGE_STEP);
   const atNewest = shown.to >= currentWeek;
   // Later stops at this week: the last step lands on it rather than in the future.
-  const later = atNewest || !laterRaw ? null : laterRaw.to > currentWeek ? { from: addIsoWeeks(currentWeek, -(RANGE_STEP - 1)), to: currentWeek } : laterRaw;
-
-  const [from, setFrom] = useState(shown.from);
-  const [to, setTo] = useState(shown.to);
-  const [errors, setErrors] = useState<{ from?: string; to?: string }>({});
-  useEffect(() => {
-    setFrom(shown.from);
-    setTo(shown.to);
-    setErrors({});
-  }, [shown.from, shown.to]);
-
-  const apply = () => {
-    const asked = { from: from.trim().toUpperCase(), to: to.trim().toUpperCase() };
-    const parsed = reviewRangeQuerySchema.safeParse(asked);
-    if (!parsed.success) {
-      const found: { from?: string; to?: string } = {};
-      for (const issue of parsed.error.issues) {
-        const key = issue.path[0] === 'to' ? 'to' : 'from';
-        found[key] ??= issue.message;
-      }
-      setErrors(found);
-      return;
-    }
-    setErrors({});
-    onRange(asked);
-  };
-
+  const later =
+    atNewest || !laterRaw
+      ? null
+      : laterRaw.to > currentWeek
+        ? { from: addIsoWeeks(currentWeek, -(RANGE_STEP - 1)), to: currentWeek }
+        : laterRaw;
   return (
     <View style={styles.wrap} testID="review-range">
       <View style={styles.row}>
@@ -95,15 +75,62 @@ export function RangeControls({ shown, currentWeek, onRange, isDefault }: RangeC
           Earlier is off: no weeks before 2000 are counted.
         </Text>
       ) : null}
-      <View style={styles.entry}>
-        <View style={styles.field}>
-          <TextField label="From week" value={from} onChangeText={setFrom} error={errors.from} hint="like 2026-W05" autoCapitalize="characters" testID="review-from" />
-        </View>
-        <View style={styles.field}>
-          <TextField label="To week" value={to} onChangeText={setTo} error={errors.to} autoCapitalize="characters" testID="review-to" onSubmitEditing={apply} />
-        </View>
-        <Button label="Show these weeks" variant="secondary" onPress={apply} testID="review-range-apply" style={styles.apply} />
+    </View>
+  );
+}
+
+/** A typed range (up to 104 weeks), checked with the server's own schema before it is asked for. */
+export function RangeEntry({ shown, onRange }: Pick<RangeProps, 'shown' | 'onRange'>) {
+  const [from, setFrom] = useState(shown.from);
+  const [to, setTo] = useState(shown.to);
+  const [errors, setErrors] = useState<{ from?: string; to?: string }>({});
+  useEffect(() => {
+    setFrom(shown.from);
+    setTo(shown.to);
+    setErrors({});
+  }, [shown.from, shown.to]);
+
+  const apply = () => {
+    const asked = { from: from.trim().toUpperCase(), to: to.trim().toUpperCase() };
+    const parsed = reviewRangeQuerySchema.safeParse(asked);
+    if (!parsed.success) {
+      const found: { from?: string; to?: string } = {};
+      for (const issue of parsed.error.issues) {
+        const key = issue.path[0] === 'to' ? 'to' : 'from';
+        found[key] ??= issue.message;
+      }
+      setErrors(found);
+      return;
+    }
+    setErrors({});
+    onRange(asked);
+  };
+
+  return (
+    <View style={styles.entry} testID="review-range-entry">
+      <View style={styles.field}>
+        <TextField
+          label="From week"
+          value={from}
+          onChangeText={setFrom}
+          error={errors.from}
+          hint="like 2026-W05"
+          autoCapitalize="characters"
+          testID="review-from"
+        />
       </View>
+      <View style={styles.field}>
+        <TextField
+          label="To week"
+          value={to}
+          onChangeText={setTo}
+          error={errors.to}
+          autoCapitalize="characters"
+          testID="review-to"
+          onSubmitEditing={apply}
+        />
+      </View>
+      <Button label="Show these weeks" variant="secondary" onPress={apply} testID="review-range-apply" style={styles.apply} />
     </View>
   );
 }

@@ -22,7 +22,7 @@ import { Banner, Button, Card, ChoiceChips, Heading, Screen, Text, layout, spaci
 import { CellNotes, type CellSelection } from './cell-notes';
 import { TREND_RULE, weekSpanText } from './format';
 import { ReviewLegend } from './legend';
-import { RangeControls } from './range-controls';
+import { RangeEntry, RangeNav } from './range-controls';
 import { SkaterPane, groupName } from './skater-pane';
 import { WeekGrid } from './week-grid';
 import { WeekMatrix } from './week-matrix';
@@ -115,6 +115,11 @@ export function ReviewScreen() {
     if (view !== 'skater') setCell(null);
   };
 
+  const moveRange = (next: WeekRangeAsked) => {
+    setRange(next);
+    setCell(null);
+  };
+
   const subject = view === 'skater' ? (skater?.displayName ?? 'a skater') : groupName(groups, group);
 
   // ---- the table pane ----
@@ -181,15 +186,7 @@ export function ReviewScreen() {
     table = (
       <View style={styles.stack}>
         {matrix ? (
-          <RangeControls
-            shown={{ from: matrix.from, to: matrix.to }}
-            currentWeek={currentWeek}
-            isDefault={range === null}
-            onRange={(next) => {
-              setRange(next);
-              setCell(null);
-            }}
-          />
+          <RangeNav shown={{ from: matrix.from, to: matrix.to }} currentWeek={currentWeek} isDefault={range === null} onRange={moveRange} />
         ) : null}
         <QueryState
           pending={matrixQuery.isPending}
@@ -221,6 +218,7 @@ export function ReviewScreen() {
             Summed over the group. To read the notes behind a count, pick a skater or open One week.
           </Text>
         ) : null}
+        {matrix ? <RangeEntry shown={{ from: matrix.from, to: matrix.to }} onRange={moveRange} /> : null}
       </View>
     );
   }
@@ -249,8 +247,15 @@ export function ReviewScreen() {
   );
 
   const phoneListShown = view === 'skater' ? !skaterId || listOpen : listOpen;
-  const whoPane = (
-    <Card testID="review-who-pane" style={wide ? styles.whoWide : undefined}>
+  // A phone with a skater's table open keeps the pane to one line: the table is what they came for.
+  const phoneCompact = !wide && view === 'skater' && !!skater && !listOpen;
+  const whoPane = phoneCompact ? (
+    <View style={styles.compactWho} testID="review-who-pane">
+      <Text weight="bold" style={styles.compactName}>{`Skater: ${skater.displayName}`}</Text>
+      <Button label="Change skater" variant="secondary" onPress={() => setListOpen(true)} testID="review-list-toggle" />
+    </View>
+  ) : (
+    <Card testID="review-who-pane" style={wide ? styles.paneWide : undefined}>
       <Heading level={2}>Skaters</Heading>
       {squad.isError && !squad.data ? (
         <Banner kind="error" testID="review-squad-error">
@@ -312,9 +317,12 @@ export function ReviewScreen() {
       />
       {wide ? (
         <View style={styles.panes}>
-          {whoPane}
+          {/* The notes open beside the table, over the skater list: the table keeps its 8 weeks in view. */}
+          <View style={styles.sideWide}>
+            {notes}
+            {whoPane}
+          </View>
           {tablePane}
-          {notes ? <View style={styles.notesWide}>{notes}</View> : null}
         </View>
       ) : (
         <>
@@ -331,7 +339,9 @@ const styles = StyleSheet.create({
   stack: { gap: spacing.sm },
   row: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: spacing.sm },
   panes: { flexDirection: 'row', gap: spacing.lg, alignItems: 'flex-start', maxWidth: layout.contentMaxWidth + 400 },
-  whoWide: { width: 280 },
-  tableWide: { flex: 1, minWidth: 0 },
-  notesWide: { width: 360 },
+  sideWide: { width: 320, gap: spacing.lg },
+  paneWide: { padding: spacing.md },
+  tableWide: { flex: 1, minWidth: 0, padding: spacing.md },
+  compactWho: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', justifyContent: 'space-between', gap: spacing.sm },
+  compactName: { flexShrink: 1 },
 });

@@ -9,8 +9,8 @@ import type { ReviewWeek } from '../../shared/schemas/review';
 import { Text, colors, spacing } from '../ui';
 import { CELL_WIDTH, CountCell } from './count-cell';
 
-const NAME_WIDTH = 180;
-const COLUMN = CELL_WIDTH + 28;
+const NAME_WIDTH = 160;
+const COLUMN = CELL_WIDTH + 44;
 
 export type WeekGridPick = { skaterId: string; skaterName: string; cueId: string; cueLabel: string };
 

@@ -13,8 +13,8 @@ import { Text, colors, spacing } from '../ui';
 import { CELL_WIDTH, CountCell } from './count-cell';
 import { trendSigns, weekHeading } from './format';
 
-const CUE_WIDTH = 196;
-const TREND_WIDTH = 132;
+const CUE_WIDTH = 150;
+const TREND_WIDTH = 112;
 
 export type CellPick = { cueId: string; cueLabel: string; week: string };
 
@@ -42,11 +42,11 @@ export function WeekMatrix({ matrix, subject, onOpenCell, selected }: WeekMatrix
           {matrix.weeks.map((week) => {
             const head = weekHeading(week);
             return (
-              <View role="columnheader" key={week} style={styles.weekHead} aria-label={`Week ${week}`} testID={`review-week-head-${week}`}>
-                <Text weight="bold" align="center" aria-hidden>
+              <View role="columnheader" key={week} style={styles.weekHead} testID={`review-week-head-${week}`}>
+                <Text weight="bold" align="center">
                   {head.number}
                 </Text>
-                <Text variant="caption" tone="muted" align="center" aria-hidden>
+                <Text variant="caption" tone="muted" align="center">
                   {head.monday}
                 </Text>
               </View>

@@ -158,7 +158,7 @@ describe('the whole-group matrix', () => {
     expect(getByTestIdWeb(`review-cell-${SIT}-${W[1]}`).props['aria-label']).toBe(`Sit lower, week ${W[1]}: no marks`);
     expect(getByTestIdWeb(`review-cell-${LOOK}-${W[0]}`).props['aria-label']).toBe(`Look ahead, week ${W[0]}: no marks`);
     // Every week of the range has its column heading, the Monday under the number.
-    for (const w of W) expect(getByTestIdWeb(`review-week-head-${w}`).props['aria-label']).toBe(`Week ${w}`);
+    for (const w of W) expect(textOf(getByTestIdWeb(`review-week-head-${w}`))).toMatch(new RegExp(`^W${w.slice(-2)}\\d{1,2} [A-Z][a-z]{2}$`));
 
     // Trend: a sign and a word; the rule is written out.
     expect(textOf(getByTestIdWeb(`review-trend-${SIT}`))).toBe('\u2193 fewer');
@@ -241,6 +241,8 @@ describe('one skater and the notes behind a cell', () => {
     await shown('review-matrix');
     expect(reviewUrls(`skaters/${ANNA}/weeks`)).toHaveLength(1);
     expect(textOf(getByTestIdWeb('review-table-heading'))).toBe('Anna Reede');
+    // On a phone the pane shrinks to one line once a skater is chosen.
+    expect(textOf(getByTestIdWeb('review-who-pane'))).toBe('Skater: Anna ReedeChange skater');
     const button = byLabel(`Sit lower, week ${W[0]}: 3 needs work, 1 good`);
     expect(button?.props.role).toBe('button');
 
