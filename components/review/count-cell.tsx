@@ -51,9 +51,12 @@ export const CountCell = memo(function CountCell({ what, week, needsWork, good, 
       ) : null}
     </View>
   );
-  return (
-    <View role="cell" style={[styles.cell, { width }]}>
-      {onPress && !empty ? (
+  if (onPress && !empty) {
+    // The figures sit under a button that covers them: the button's name says the cue, the week
+    // and both counts in words, and the bare figures ("2", "1") are not read out a second time.
+    return (
+      <View role="cell" style={[styles.cell, { width }]}>
+        <View style={[styles.box, styles.live, selected && styles.selected]}>{body}</View>
         <Pressable
           testID={testID}
           accessibilityRole="button"
@@ -61,15 +64,16 @@ export const CountCell = memo(function CountCell({ what, week, needsWork, good, 
           accessibilityState={{ selected }}
           aria-pressed={selected}
           onPress={onPress}
-          style={({ pressed }) => [styles.box, styles.live, selected && styles.selected, pressed && styles.pressed]}
-        >
-          {body}
-        </Pressable>
-      ) : (
-        <View testID={testID} aria-label={name} role="img" style={[styles.box, !empty && styles.still]}>
-          {body}
-        </View>
-      )}
+          style={({ pressed }) => [styles.cover, pressed && styles.pressed]}
+        />
+      </View>
+    );
+  }
+  return (
+    <View role="cell" style={[styles.cell, { width }]}>
+      <View testID={testID} aria-label={name} role="img" style={[styles.box, !empty && styles.still]}>
+        {body}
+      </View>
     </View>
   );
 });
@@ -80,7 +84,8 @@ const styles = StyleSheet.create({
   live: { backgroundColor: colors.surface, borderWidth: 2, borderColor: colors.divider },
   still: { backgroundColor: colors.surface },
   selected: { borderColor: colors.primary, borderWidth: 3, backgroundColor: colors.surfaceSunken },
-  pressed: { backgroundColor: colors.surfaceSunken },
+  pressed: { backgroundColor: 'rgba(14, 59, 82, 0.12)' },
+  cover: { position: 'absolute', top: 2, left: 2, right: 2, bottom: 2, borderRadius: radius.sm },
   counts: { alignItems: 'flex-start', gap: 0 },
   count: { flexDirection: 'row', alignItems: 'center', gap: spacing.xxs },
 });
