@@ -27,10 +27,12 @@ export type RangeProps = {
   onRange: (range: { from: string; to: string } | null) => void;
   /** True when the default (last 8 weeks) is on screen. */
   isDefault: boolean;
+  /** Short button words (a phone): "← Earlier", "Later →"; the spoken names stay whole. */
+  compact?: boolean;
 };
 
 /** Earlier / the range shown / Later, above the table. */
-export function RangeNav({ shown, currentWeek, onRange, isDefault }: RangeProps) {
+export function RangeNav({ shown, currentWeek, onRange, isDefault, compact = false }: RangeProps) {
   const earlier = shiftRange(shown, -RANGE_STEP);
   const laterRaw = shiftRange(shown, RANGE_STEP);
   const atNewest = shown.to >= currentWeek;
@@ -45,7 +47,8 @@ export function RangeNav({ shown, currentWeek, onRange, isDefault }: RangeProps)
     <View style={styles.wrap} testID="review-range">
       <View style={styles.row}>
         <Button
-          label={`\u2190 Earlier ${RANGE_STEP} weeks`}
+          label={compact ? '\u2190 Earlier' : `\u2190 Earlier ${RANGE_STEP} weeks`}
+          accessibilityLabel={`Earlier ${RANGE_STEP} weeks`}
           variant="secondary"
           disabled={!earlier}
           accessibilityHint={earlier ? undefined : 'Not available: no earlier weeks are counted'}
@@ -56,7 +59,8 @@ export function RangeNav({ shown, currentWeek, onRange, isDefault }: RangeProps)
           {`${shown.from} to ${shown.to}`}
         </Text>
         <Button
-          label={`Later ${RANGE_STEP} weeks \u2192`}
+          label={compact ? 'Later \u2192' : `Later ${RANGE_STEP} weeks \u2192`}
+          accessibilityLabel={`Later ${RANGE_STEP} weeks`}
           variant="secondary"
           disabled={!later}
           accessibilityHint={later ? undefined : 'Not available: the range already ends with this week'}

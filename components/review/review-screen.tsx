@@ -186,7 +186,7 @@ export function ReviewScreen() {
     table = (
       <View style={styles.stack}>
         {matrix ? (
-          <RangeNav shown={{ from: matrix.from, to: matrix.to }} currentWeek={currentWeek} isDefault={range === null} onRange={moveRange} />
+          <RangeNav shown={{ from: matrix.from, to: matrix.to }} currentWeek={currentWeek} isDefault={range === null} onRange={moveRange} compact={!wide} />
         ) : null}
         <QueryState
           pending={matrixQuery.isPending}
@@ -227,7 +227,7 @@ export function ReviewScreen() {
     view === 'week' ? `One week: ${subject}` : view === 'skater' ? (skater ? skater.displayName : 'One skater') : `Whole group: ${subject}`;
 
   const tablePane = (
-    <Card testID="review-table-pane" style={wide ? styles.tableWide : undefined}>
+    <Card testID="review-table-pane" style={wide ? styles.tableWide : styles.tablePhone}>
       <Heading level={2} testID="review-table-heading">
         {heading}
       </Heading>
@@ -342,6 +342,7 @@ const styles = StyleSheet.create({
   sideWide: { width: 320, gap: spacing.lg },
   paneWide: { padding: spacing.md },
   tableWide: { flex: 1, minWidth: 0, padding: spacing.md },
+  tablePhone: { padding: spacing.md },
   compactWho: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', justifyContent: 'space-between', gap: spacing.sm },
   compactName: { flexShrink: 1 },
 });

@@ -14,7 +14,7 @@ import { v4 as uuidv4, v7 as uuidv7 } from 'uuid';
 
 import { HybridClock } from '../../shared/hlc';
 import { weekOf } from '../../shared/weeks';
-import { apiCoachWithSkaters, DESKTOP, expectNoA11yViolations, PHONE, shootBoth, signInThroughForm, watchErrors } from './support';
+import { apiCoachWithSkaters, DESKTOP, expectNoA11yViolations, PHONE, SHOTS, shootBoth, signInThroughForm, watchErrors } from './support';
 
 const DAY = 86_400_000;
 
@@ -162,6 +162,11 @@ test('a coach reads the week-by-week counts and the notes behind a cell, wide an
   await page.setViewportSize(PHONE);
   await expect(notes).toBeVisible();
   await expect(page.getByTestId('review-list-toggle')).toHaveText('Change skater');
+  // The page scrolls inside the app frame, so a full-page shot shows one screen: keep the table and the notes too.
+  await page.getByTestId('review-matrix').scrollIntoViewIfNeeded();
+  await page.screenshot({ path: path.join(SHOTS, 'review-skater-table-390.png') });
+  await notes.scrollIntoViewIfNeeded();
+  await page.screenshot({ path: path.join(SHOTS, 'review-skater-notes-390.png') });
   await expectTapTargets(page);
   await expectNoA11yViolations(page, 'review, one skater on a phone');
 
