@@ -6,10 +6,15 @@
  * against the real server, a generated schedule of taps and sync runs, faults injected by seeded
  * RNGs, then faults off and every client syncing until quiet (twice).
  *
- * The result lists what was lost, duplicated, resurrected; where a device differs from what the
- * server lets its user see (a skater: only their own notes, a private note's text blank, their
- * own profile and group - computed here from the coach's view, and checked against the server's
- * own pull for the skater); what a skater's device holds that the skater may not see; and sync
+ * Coaches also time heats on the clock (14% of their steps): start heats, tap crossings, undo the
+ * last tap, edit crossings and runs after the race (the head coach's devices edit other coaches'
+ * runs: a run timed on one device and edited on another), finish or stop runs, set targets (two
+ * coaches setting the same target write one record).
+ *
+ * The result lists what was lost, duplicated, resurrected (notes, runs and crossings); where a
+ * device differs from what the server lets its user see (a skater: only their own notes, a
+ * private note's text blank, their own profile and group, their own runs, crossings and targets -
+ * computed here from the coach's view, and checked against the server's own pull for the skater); what a skater's device holds that the skater may not see; and sync
  * failures that no injected fault explains. The caller asserts or prints.
  */
 import fc from 'fast-check';
@@ -80,6 +85,8 @@ export interface ConvergenceResult {
   deletes: number;
   survivors: number;
   serverLive: number;
+  /** The clock: runs started, crossings tapped, crossings undone, crossings kept (and live on the server). */
+  clock: { runs: number; crossings: number; undone: number; kept: number; serverLive: number };
   lost: string[];
   duplicated: string[];
   resurrected: string[];
@@ -93,6 +100,8 @@ export interface ConvergenceResult {
   unexpected: string[];
   pendingLeft: number;
   rejectedLeft: number;
+  /** What the server said about the changes it refused (distinct), to explain rejectedLeft. */
+  rejectedReasons: string[];
   /** Outbox rows of anyone left on any device (parked ones of a signed-out user included). */
   outboxRowsLeft: number;
   tombstoneRowsLeft: number;
@@ -116,6 +125,17 @@ export interface ConvergenceContext {
 }
 
 const DAYS = ['2026-01-15', '2026-01-16'];
+
+/** The clock's share of a coach's steps: actions CLOCK_FROM..CLOCK_TO-1 (14%). */
+const CLOCK_FROM = 72;
+const CLOCK_TO = 86;
+/** Distances timed (0: free laps, never a target). */
+const CLOCK_DISTANCES = [500, 1500, 3000, 0];
+/** What a clock step does, from its pick: taps most often, as at the boards. */
+function clockKind(pick: number) {
+  const kinds = ['startHeat', 'crossing', 'crossing', 'crossing', 'crossing', 'undoCrossing', 'editCrossing', 'finishRun', 'editRun', 'setTarget'] as const;
+  return kinds[pick % kinds.length];
+}
 const GROUPS = ['Group Noord', 'Group Zuid', 'Group Oost'];
 
 /**
@@ -242,6 +262,9 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
 
   const created = new Map<string, number>();
   const deleted = new Set<string>();
+  const createdRuns = new Map<string, number>();
+  const createdCrossings = new Map<string, number>();
+  const deletedCrossings = new Set<string>();
   const opsByKind: Record<string, number> = {};
   let skipped = 0;
   let syncRuns = 0;
@@ -309,17 +332,90 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
     const { pick, action } = step;
     try {
       if (person.role === 'skater') {
-        // A skater acknowledges one of their notes (60%) or reads their page.
+        // A skater acknowledges one of their notes (60%) or reads their page (notes, or runs).
         const row = action < 60 ? await one<{ id: string }>(device, 'id', 'observations', 'team_id = ? AND deleted = 0 AND acknowledged_at IS NULL', [teamId], pick) : undefined;
         if (row) {
           await store.acknowledgeObservation(row.id, userId, 'skater');
           count('acknowledge');
+        } else if (action >= 80) {
+          await store.runsForSkater(teamId, person.skaterId!, DAYS[pick % DAYS.length]);
+          count('readRuns');
         } else {
           await store.listForSkater(teamId, person.skaterId!, DAYS[pick % DAYS.length]);
           count('read');
         }
-      } else if (action < 40) {
-        // Record: one skater (30%) or a group of 2-3 (10%), on one of two rink days.
+      } else if (action >= CLOCK_FROM && action < CLOCK_TO) {
+        // The clock (14%): heats, taps, undo, edits after the race, finishing, targets.
+        const role = person.role === 'head' ? 'head_coach' : 'coach';
+        const kind = clockKind(pick);
+        const ownRunning = () =>
+          one<{ id: string }>(device, 'id', 'runs', 'team_id = ? AND deleted = 0 AND status = ? AND created_by = ?', [teamId, 'running', userId], pick >>> 4);
+        const running = kind === 'crossing' || kind === 'undoCrossing' ? await ownRunning() : undefined;
+        if (kind === 'startHeat' || (kind === 'crossing' && !running)) {
+          const skaters = (await store.listSkaters(teamId)).map((s) => s.id);
+          if (skaters.length < 2) throw new StoreError('nothing loaded yet');
+          const distanceM = CLOCK_DISTANCES[(pick >>> 4) % CLOCK_DISTANCES.length];
+          const first = (pick >>> 6) % skaters.length;
+          const made = await store.startHeat({
+            teamId,
+            userId,
+            heatId: uuidv7(),
+            startedAt: new Date(device.skewMs + Date.now()).toISOString(),
+            day: DAYS[(pick >>> 5) % DAYS.length],
+            runs: [
+              { skaterId: skaters[first], distanceM, track: 'long', lane: 'inner' },
+              ...(pick & 8 ? [{ skaterId: skaters[(first + 1) % skaters.length], distanceM, track: 'long' as const, lane: 'outer' as const }] : []),
+            ],
+          });
+          for (const r of made) createdRuns.set(r.id, c.index);
+          count('startHeat');
+        } else if (kind === 'crossing') {
+          const [{ last }] = await device.driver.all<{ last: number | null }>(`SELECT max(at_ms) AS last FROM crossings WHERE run_id = ? AND deleted = 0`, [running!.id]);
+          const atMs = Math.min(86_400_000, (last ?? 0) + 20_000 + ((pick >>> 3) % 15_000));
+          const made = await store.recordCrossing({ runId: running!.id, userId, atMs, role, handTimed: (pick & 64) !== 0 });
+          createdCrossings.set(made.id, c.index);
+          count('crossing');
+        } else if (kind === 'undoCrossing') {
+          // Undo the last tap of one of this coach's runs (running, or just finished).
+          const run = running ?? (await one<{ id: string }>(device, 'id', 'runs', 'team_id = ? AND deleted = 0 AND created_by = ?', [teamId, userId], pick >>> 4));
+          const [last] = run
+            ? await device.driver.all<{ id: string }>(`SELECT id FROM crossings WHERE run_id = ? AND deleted = 0 ORDER BY at_ms DESC LIMIT 1`, [run.id])
+            : [];
+          if (!last) skipped += 1;
+          else {
+            await store.removeCrossings([last.id], userId, role);
+            deletedCrossings.add(last.id);
+            count('undoCrossing');
+          }
+        } else if (kind === 'editCrossing') {
+          // After the race: move a crossing or mark it hand-timed (a plain coach's edit of another's run is refused: skipped).
+          const row = await one<{ id: string; at_ms: number; hand_timed: number }>(device, 'id, at_ms, hand_timed', 'crossings', 'team_id = ? AND deleted = 0', [teamId], pick);
+          if (!row) skipped += 1;
+          else {
+            await store.updateCrossing(row.id, userId, pick & 2 ? { handTimed: !row.hand_timed } : { atMs: Math.max(0, row.at_ms - 1 - ((pick >>> 2) % 90)) }, role);
+            count('editCrossing');
+          }
+        } else if (kind === 'finishRun' || kind === 'editRun') {
+          const row = await one<{ id: string; status: string }>(device, 'id, status', 'runs', 'team_id = ? AND deleted = 0', [teamId], pick);
+          if (!row) skipped += 1;
+          else if (kind === 'finishRun') {
+            await store.finishRun(row.id, userId, pick & 2 ? { status: 'finished' } : { status: 'stopped', stopReason: `[s${c.index}.${stepIndex}]` }, role);
+            count('finishRun');
+          } else {
+            await store.updateRun(row.id, userId, { note: `[r${c.index}.${stepIndex}]` }, role);
+            count('editRun');
+          }
+        } else {
+          // A target: every coach may set any skater's (one record per skater, track and distance).
+          const skaters = (await store.listSkaters(teamId)).map((s) => s.id);
+          if (skaters.length === 0) throw new StoreError('nothing loaded yet');
+          const distanceM = CLOCK_DISTANCES[(pick >>> 4) % (CLOCK_DISTANCES.length - 1)];
+          const plan = distanceM === 1500 && pick & 2 ? { plan: 'shares' as const, sharesPct: [22.1, 24.6, 26.2, 27.1], openerMs: null } : { plan: 'even' as const, openerMs: pick & 4 ? 20_000 + (pick % 9_000) : null, sharesPct: null };
+          await store.setTarget({ teamId, userId, role, skaterId: skaters[(pick >>> 7) % skaters.length], track: 'long', distanceM, targetMs: 100_000 + ((pick >>> 3) % 30_000) * 10, ...plan });
+          count('setTarget');
+        }
+      } else if (action < 36) {
+        // Record: one skater (30%) or a group of 2-3 (6%), on one of two rink days.
         const skaters = (await store.listSkaters(teamId)).map((s) => s.id);
         const cues = (await store.listCues(teamId)).filter((q) => !q.archived);
         // Right after a sign-in on the shared device the board is empty until the first pull.
@@ -340,14 +436,14 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
         });
         for (const o of made) created.set(o.id, c.index);
         count(group > 1 ? 'recordGroup' : 'record');
-      } else if (action < 72) {
-        // Edit the mark (16%), the note (6%), who sees the note (4%) or mark and note (6%) of a note this device shows.
+      } else if (action < 62) {
+        // Edit the mark (13%), the note (5%), who sees the note (3%) or mark and note (5%) of a note this device shows.
         const row = await one<{ id: string; mark: string; note_shared: number }>(device, 'id, mark, note_shared', 'observations', 'team_id = ? AND deleted = 0', [teamId], pick);
         if (!row) {
           skipped += 1;
         } else {
           const flip = row.mark === 'good' ? 'needs_work' : 'good';
-          const kind = action < 56 ? 'editMark' : action < 62 ? 'editNote' : action < 66 ? 'editShared' : 'editBoth';
+          const kind = action < 49 ? 'editMark' : action < 54 ? 'editNote' : action < 57 ? 'editShared' : 'editBoth';
           const patch =
             kind === 'editMark'
               ? { mark: flip }
@@ -360,8 +456,8 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
           await store.updateObservation(row.id, userId, patch as { mark?: 'good' | 'needs_work'; note?: string; noteShared?: boolean }, person.role === 'head' ? 'head_coach' : 'coach');
           count(kind);
         }
-      } else if (action < 84) {
-        // Delete a note this device shows (12%).
+      } else if (action < 72) {
+        // Delete a note this device shows (10%).
         const row = await one<{ id: string }>(device, 'id', 'observations', 'team_id = ? AND deleted = 0', [teamId], pick);
         if (!row) skipped += 1;
         else {
@@ -458,6 +554,9 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
   }[];
   const privateTexts = [...new Set(sqlRows.filter((r) => !r.note_shared && r.note !== '').map((r) => r.note))];
   const survivors = [...created.keys()].filter((id) => !deleted.has(id));
+  const crossingSurvivors = [...createdCrossings.keys()].filter((id) => !deletedCrossings.has(id));
+  const crossingRows = (await ctx.dataSource.query(`SELECT id, deleted_at FROM crossings WHERE team_id = $1`, [teamId])) as { id: string; deleted_at: Date | null }[];
+  const runRows = (await ctx.dataSource.query(`SELECT id, deleted_at FROM runs WHERE team_id = $1`, [teamId])) as { id: string; deleted_at: Date | null }[];
   const viewFor = (person: Person): SyncedState => (person.role === 'skater' ? skaterView(coachView, person.skaterId!) : coachView);
 
   const lost = new Set<string>();
@@ -468,6 +567,11 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
   let tombstoneRowsLeft = 0;
   for (const id of survivors) if (!coachView.observations.has(id)) lost.add(`${id} (server)`);
   for (const id of deleted) if (coachView.observations.has(id) || sqlRows.some((r) => r.id === id && r.deleted_at === null)) resurrected.push(`${id} (server)`);
+  // The clock: every run made is live on the server (runs are not deleted here), every crossing
+  // tapped and not undone is, and no undone one is.
+  for (const id of createdRuns.keys()) if (!coachView.runs.has(id)) lost.add(`run ${id} (server)`);
+  for (const id of crossingSurvivors) if (!coachView.crossings.has(id)) lost.add(`crossing ${id} (server)`);
+  for (const id of deletedCrossings) if (coachView.crossings.has(id) || crossingRows.some((r) => r.id === id && r.deleted_at === null)) resurrected.push(`crossing ${id} (server)`);
 
   /** Checks one device as the person signed in on it now. */
   const check = async (c: Client, label: string) => {
@@ -476,6 +580,8 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
     tombstoneRowsLeft += got.tombstones.length;
     for (const id of survivors) if (want.observations.has(id) && !got.observations.has(id)) lost.add(`${id} (${label})`);
     for (const id of deleted) if (got.observations.has(id)) resurrected.push(`${id} (${label})`);
+    for (const id of crossingSurvivors) if (want.crossings.has(id) && !got.crossings.has(id)) lost.add(`crossing ${id} (${label})`);
+    for (const id of deletedCrossings) if (got.crossings.has(id)) resurrected.push(`crossing ${id} (${label})`);
     for (const table of STATE_TABLES) mismatches.push(...diffTable(table, want[table], got[table]).map((line) => `${label} ${line}`));
     if (c.person.role === 'skater') {
       const readable = new Set([...want.observations.values()].map((o) => o.note as string));
@@ -508,13 +614,26 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
   const live = sqlRows.filter((r) => r.deleted_at === null);
   for (const r of live) if (!created.has(r.id)) duplicated.push(`${r.id} (live on the server, never created by a client)`);
   if (live.length !== survivors.length) duplicated.push(`server has ${live.length} live observations for ${survivors.length} surviving creates`);
+  for (const [rowsOf, made, what] of [
+    [crossingRows, createdCrossings, 'crossing'],
+    [runRows, createdRuns, 'run'],
+  ] as const) {
+    const counted = new Map<string, number>();
+    for (const r of rowsOf) counted.set(r.id, (counted.get(r.id) ?? 0) + 1);
+    for (const [id, times] of counted) if (times > 1) duplicated.push(`${what} ${id} x${times} rows`);
+    for (const r of rowsOf) if (r.deleted_at === null && !made.has(r.id)) duplicated.push(`${what} ${r.id} (live on the server, never made by a client)`);
+  }
+  const liveCrossings = crossingRows.filter((r) => r.deleted_at === null).length;
+  if (liveCrossings !== crossingSurvivors.length) duplicated.push(`server has ${liveCrossings} live crossings for ${crossingSurvivors.length} kept taps`);
 
   let pendingLeft = 0;
   let rejectedLeft = 0;
   let outboxRowsLeft = 0;
+  const rejectedReasons = new Set<string>();
   for (const c of clients) {
     pendingLeft += await c.device.store.pendingCount();
     rejectedLeft += await c.device.store.rejectedCount();
+    for (const entry of await c.device.store.listRejected()) rejectedReasons.add(`${entry.table} ${entry.kind}: ${entry.rejectReason} ${entry.lastError ?? ''}`.trim());
     outboxRowsLeft += (await c.device.driver.all<{ n: number }>(`SELECT count(*) AS n FROM outbox`))[0].n;
   }
   const stats = clients.map((c) => c.device.transport.stats);
@@ -531,6 +650,7 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
     deletes: deleted.size,
     survivors: survivors.length,
     serverLive: live.length,
+    clock: { runs: createdRuns.size, crossings: createdCrossings.size, undone: deletedCrossings.size, kept: crossingSurvivors.length, serverLive: liveCrossings },
     lost: [...lost],
     duplicated,
     resurrected,
@@ -540,6 +660,7 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
     unexpected,
     pendingLeft,
     rejectedLeft,
+    rejectedReasons: [...rejectedReasons],
     outboxRowsLeft,
     tombstoneRowsLeft,
     syncRuns,
@@ -565,8 +686,10 @@ export function describeResult(r: ConvergenceResult): string {
   return [
     `clients ${r.clients} (${Object.entries(seats).map(([k, v]) => `${k} ${v}`).join(', ')}), ops ${r.ops} (${Object.entries(r.opsByKind).map(([k, v]) => `${k} ${v}`).join(', ')}, skipped ${r.skipped})`,
     `creates ${r.creates}, deletes ${r.deletes}, surviving ${r.survivors}, live on the server ${r.serverLive}`,
+    `clock: runs ${r.clock.runs}, crossings ${r.clock.crossings} (undone ${r.clock.undone}, kept ${r.clock.kept}, live on the server ${r.clock.serverLive})`,
     `lost ${r.lost.length}, duplicated ${r.duplicated.length}, resurrected ${r.resurrected.length}, device/server mismatches ${r.mismatches.length}, skater view mismatches ${r.viewMismatches.length}, leaks ${r.leaks.length}, unexpected sync failures ${r.unexpected.length}`,
     `outbox left: pending ${r.pendingLeft}, rejected ${r.rejectedLeft}, rows ${r.outboxRowsLeft}; tombstone rows left ${r.tombstoneRowsLeft}`,
+    ...r.rejectedReasons.slice(0, 5).map((reason) => `  refused: ${reason}`),
     `sync runs ${r.syncRuns} (${r.syncFailures} failed under faults, ${r.ownerChanges} stopped by a sign-in), shared device sign-ins ${r.switches}, final quiet rounds ${r.quietRounds}`,
     `requests ${r.faults.requests}: dropped ${r.faults.droppedRequests}, late ${r.faults.lateRequests}, replies dropped ${r.faults.droppedReplies}, duplicate answers ${r.faults.duplicateAnswers}`,
     `time ${(r.ms / 1000).toFixed(1)} s (${Object.entries(r.phases).map(([k, v]) => `${k} ${(v / 1000).toFixed(1)} s`).join(', ')})`,

@@ -34,6 +34,11 @@ export interface Endpoint {
 /** Listens on an ephemeral port of 127.0.0.1 (fetch then goes through real HTTP). */
 export async function listen(app: Express): Promise<Endpoint> {
   const server = http.createServer(app);
+  // The server never closes an idle kept-alive connection itself (the clients' pool does, after
+  // its own few seconds). With Node's default 5 s, a loaded machine (the 20 devices' SQLite work
+  // delays every timer) sometimes had the server close a socket just as fetch reused it: a
+  // request failed with ECONNRESET that no injected fault explains.
+  server.keepAliveTimeout = 0;
   await new Promise<void>((resolve) => server.listen(0, '127.0.0.1', resolve));
   const { port } = server.address() as AddressInfo;
   return {
