@@ -18,6 +18,7 @@ import { v7 as uuidv7 } from 'uuid';
 
 import { localDay } from '../../sync';
 import {
+  correctedNow,
   useDeleteCrossing,
   useEditCrossing,
   useEditRun,
@@ -209,8 +210,9 @@ export function useHeatActions(teamId: string, heatRuns: readonly ClockRun[], ta
 
 /**
  * After a reload (or a crash), picks up the newest heat this coach left running: its lanes come
- * back with every stored crossing, and the clock is rebuilt from the wall-clock start. Runs left
- * running longer ago than RESUME_WITHIN_MS are returned as stale, for the coach to close.
+ * back with every stored crossing, and the clock is rebuilt from the stored start (wall-clock
+ * time as the store keeps it, corrected by the server's). Runs left running longer ago than
+ * RESUME_WITHIN_MS are not resumed: the screen offers to close them.
  */
 export function useResumeHeat(openRuns: readonly ClockRun[] | undefined) {
   const checked = useClockUi((s) => s.resumeChecked);
@@ -238,19 +240,30 @@ export function useResumeHeat(openRuns: readonly ClockRun[] | undefined) {
       offsetMode: newest.startOffsetMs ? 'direct' : 'none',
       offsetText: (newest.startOffsetMs / 1000).toFixed(2),
     });
-    ui.startHeat({
-      heatId: newest.heatId,
-      runIds: runs.map((r) => r.id),
-      // performance.now() and Date.now() tick together: the start sits as far back on this page's
-      // performance clock as the wall clock says it was.
-      startPerfTs: performance.now() - (Date.now() - startedAtMs),
-      startedAt: newest.startedAt,
-      day: newest.day,
-      offsetMs: newest.startOffsetMs,
-      distanceM: newest.distanceM,
-      track: newest.track,
-      resumed: true,
-    });
+    void (async () => {
+      // startedAt is stored in the server's time (the device clock corrected by it): "now" must be
+      // read the same way. performance.now() ticks with it, so the start sits that far back on
+      // this page's performance clock.
+      let now: number;
+      try {
+        now = await correctedNow();
+      } catch {
+        now = Date.now();
+      }
+      const perfNow = performance.now();
+      if (useClockUi.getState().live) return;
+      useClockUi.getState().startHeat({
+        heatId: newest.heatId,
+        runIds: runs.map((r) => r.id),
+        startPerfTs: perfNow - (now - startedAtMs),
+        startedAt: newest.startedAt,
+        day: newest.day,
+        offsetMs: newest.startOffsetMs,
+        distanceM: newest.distanceM,
+        track: newest.track,
+        resumed: true,
+      });
+    })();
   }, [checked, openRuns]);
 }
 

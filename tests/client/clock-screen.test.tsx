@@ -44,7 +44,7 @@ type FakeRun = {
   crossings: { id: string; atMs: number; handTimed: boolean }[];
 };
 
-const mockDb = { runs: [] as FakeRun[], ids: 0 };
+const mockDb = { runs: [] as FakeRun[], ids: 0, skewMs: 0 };
 const mockCalls = {
   start: jest.fn(),
   record: jest.fn(),
@@ -98,6 +98,8 @@ jest.mock('../../store/clock', () => {
     return { mutate: run, mutateAsync: async (args: never) => run(args), isPending: false };
   };
   return {
+    // The store's "now": the device clock corrected by the server's (here: a device 10 min slow).
+    correctedNow: async () => Date.now() + mockDb.skewMs,
     runsOnDayQuery: () => ({ queryKey: ['test', 'day'], staleTime: Infinity, queryFn: async () => copy() }),
     openRunsQuery: () => ({ queryKey: ['test', 'open'], staleTime: Infinity, queryFn: async () => copy().filter((r) => r.status === 'running') }),
     targetsQuery: () => ({
@@ -171,6 +173,7 @@ async function startPair() {
 describe('ClockScreen', () => {
   beforeEach(() => {
     mockDb.runs = [];
+    mockDb.skewMs = 0;
     Object.values(mockCalls).forEach((fn) => fn.mockReset());
     mockSpeak.mockReset();
     mockStop.mockReset();
@@ -236,6 +239,33 @@ describe('ClockScreen', () => {
     expect(mockCalls.start.mock.calls[0][0].runs[0].startOffsetMs).toBe(299);
     await touch('lane-tap-inner', GUN + 24_011);
     expect(mockCalls.record).toHaveBeenLastCalledWith({ runId: expect.any(String), atMs: 24_310 });
+  });
+
+  it('a reload mid-race: the open heat comes back with its crossings, its clock rebuilt from the stored start in the store’s time', async () => {
+    // The device runs 10 minutes slow; the store keeps instants in the server's time.
+    mockDb.skewMs = 600_000;
+    const startedAt = new Date(Date.now() + mockDb.skewMs - 60_000).toISOString();
+    const base = { heatId: 'heat-1', day: '2026-12-02', distanceM: 1500, track: 'long' as const, startedAt, startOffsetMs: 0, status: 'running' as const, stopReason: '', note: '' };
+    mockDb.runs = [
+      { ...base, id: '0190a0b0-0000-7000-8000-0000000000e1', skaterId: ANNA, lane: 'inner', targetMs: 118_000, crossings: [{ id: 'x1', atMs: 24_310, handTimed: false }, { id: 'x2', atMs: 55_930, handTimed: false }] },
+      { ...base, id: '0190a0b0-0000-7000-8000-0000000000e2', skaterId: BRAM, lane: 'outer', targetMs: null, crossings: [{ id: 'x3', atMs: 24_610, handTimed: false }] },
+    ];
+    renderClock();
+    await waitFor(() => getByTestIdWeb('lane-tap-inner'));
+    const live = useClockUi.getState().live!;
+    expect(live.resumed).toBe(true);
+    // About a minute into the heat, not ten minutes off.
+    const elapsed = performance.now() - live.startPerfTs;
+    expect(elapsed).toBeGreaterThanOrEqual(60_000);
+    expect(elapsed).toBeLessThan(65_000);
+    expect(text('clock-resumed')).toContain('Resumed');
+    expect(text('lane-inner-lap')).toBe('31.62');
+    expect(text('lane-inner-togo')).toBe('2 laps to go');
+    expect(text('lane-outer-lap')).toBe('24.61');
+    // The setup comes back too, for the next repetition.
+    expect(useClockUi.getState().setup).toMatchObject({ distanceM: 1500, track: 'long', mode: 'pair', inner: ANNA, outer: BRAM });
+    await touch('lane-tap-inner', live.startPerfTs + 87_410);
+    expect(mockCalls.record).toHaveBeenLastCalledWith({ runId: '0190a0b0-0000-7000-8000-0000000000e1', atMs: 87_410 });
   });
 
   it('reads the splits aloud one at a time: the second lane waits for the first sentence', async () => {
