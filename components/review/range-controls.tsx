@@ -45,6 +45,11 @@ export function RangeNav({ shown, currentWeek, onRange, isDefault, compact = fal
         : laterRaw;
   return (
     <View style={styles.wrap} testID="review-range">
+      {compact ? (
+        <Text weight="bold" testID="review-range-shown" aria-live="polite">
+          {`${shown.from} to ${shown.to}`}
+        </Text>
+      ) : null}
       <View style={styles.row}>
         <Button
           label={compact ? '\u2190 Earlier' : `\u2190 Earlier ${RANGE_STEP} weeks`}
@@ -55,9 +60,11 @@ export function RangeNav({ shown, currentWeek, onRange, isDefault, compact = fal
           onPress={() => earlier && onRange(earlier)}
           testID="review-earlier"
         />
-        <Text weight="bold" testID="review-range-shown" aria-live="polite">
-          {`${shown.from} to ${shown.to}`}
-        </Text>
+        {!compact ? (
+          <Text weight="bold" testID="review-range-shown" aria-live="polite">
+            {`${shown.from} to ${shown.to}`}
+          </Text>
+        ) : null}
         <Button
           label={compact ? 'Later \u2192' : `Later ${RANGE_STEP} weeks \u2192`}
           accessibilityLabel={`Later ${RANGE_STEP} weeks`}

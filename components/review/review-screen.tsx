@@ -205,6 +205,7 @@ export function ReviewScreen() {
           <WeekMatrix
             matrix={matrix}
             subject={subject}
+            compact={!wide}
             selected={view === 'skater' && cell ? cell : null}
             onOpenCell={
               view === 'skater' && skater
