@@ -4,7 +4,7 @@
  * is the server's (SQL over the whole team); nothing here counts. A range left out (`null`) asks
  * for the server's default: the last 8 ISO weeks of the team's time zone.
  */
-import { keepPreviousData, queryOptions } from '@tanstack/react-query';
+import { queryOptions } from '@tanstack/react-query';
 
 import {
   reviewCellSchema,
@@ -37,7 +37,16 @@ const reviewPath = (teamId: string, rest: string, query: Record<string, string |
 
 const rangeQuery = (range: WeekRangeAsked) => (range ? { from: range.from, to: range.to } : {});
 
-/** One skater's cues x ISO weeks. The previous range stays on screen while the next one loads. */
+/**
+ * The previous answer stays on screen while another range of the SAME skater or group loads (the
+ * range buttons do not jump); another skater or group never shows someone else's counts meanwhile.
+ */
+const sameSubject =
+  (subject: string) =>
+  <T>(previous: T | undefined, previousQuery?: { queryKey: readonly unknown[] }) =>
+    previousQuery?.queryKey[3] === subject ? previous : undefined;
+
+/** One skater's cues x ISO weeks. */
 export function skaterWeeksQuery(teamId: string, skaterId: string, range: WeekRangeAsked) {
   return queryOptions({
     queryKey: reviewKeys.skater(teamId, skaterId, range),
@@ -45,7 +54,7 @@ export function skaterWeeksQuery(teamId: string, skaterId: string, range: WeekRa
       apiRequestParsed(reviewPath(teamId, `skaters/${encodeURIComponent(skaterId)}/weeks`, rangeQuery(range)), reviewMatrixSchema, {
         signal,
       }),
-    placeholderData: keepPreviousData,
+    placeholderData: sameSubject(skaterId),
   });
 }
 
@@ -57,7 +66,7 @@ export function groupWeeksQuery(teamId: string, groupId: ReviewGroup, range: Wee
       apiRequestParsed(reviewPath(teamId, `groups/${encodeURIComponent(groupId)}/weeks`, rangeQuery(range)), reviewMatrixSchema, {
         signal,
       }),
-    placeholderData: keepPreviousData,
+    placeholderData: sameSubject(groupId),
   });
 }
 
@@ -67,7 +76,6 @@ export function weekGridQuery(teamId: string, week: string, groupId: ReviewGroup
     queryKey: reviewKeys.week(teamId, week, groupId),
     queryFn: ({ signal }) =>
       apiRequestParsed(reviewPath(teamId, `week/${encodeURIComponent(week)}`, { groupId }), reviewWeekSchema, { signal }),
-    placeholderData: keepPreviousData,
   });
 }
 

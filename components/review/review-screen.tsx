@@ -45,6 +45,7 @@ function QueryState({
   onRetry,
   what,
   testID,
+  placeholder = false,
 }: {
   pending: boolean;
   error: Error | null;
@@ -52,11 +53,13 @@ function QueryState({
   onRetry: () => void;
   what: string;
   testID: string;
+  /** The weeks on screen are the previous answer while the ones asked for load. */
+  placeholder?: boolean;
 }) {
-  if (pending && !hasData)
+  if ((pending && !hasData) || placeholder)
     return (
       <Text tone="muted" role="status" testID={`${testID}-loading`}>
-        {`Loading ${what}…`}
+        {placeholder ? `Loading the weeks asked for… (the table shows the previous ones)` : `Loading ${what}…`}
       </Text>
     );
   if (!error) return null;
@@ -192,6 +195,7 @@ export function ReviewScreen() {
           pending={matrixQuery.isPending}
           error={matrixQuery.error}
           hasData={!!matrix}
+          placeholder={matrixQuery.isPlaceholderData}
           onRetry={() => void matrixQuery.refetch()}
           what="the counts"
           testID="review-matrix"

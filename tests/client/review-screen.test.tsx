@@ -107,10 +107,15 @@ function defaultAnswer(url: URL): Answer {
   return { status: 404, body: { error: { code: 'not_found', message: 'no route' } } };
 }
 
+/** Requests whose URL holds this never get an answer (a slow rink network). */
+let holdPath: string | null = null;
+
 beforeEach(() => {
+  holdPath = null;
   fetchMock.mockReset();
   answer = defaultAnswer;
   fetchMock.mockImplementation((url: string) => {
+    if (holdPath && url.includes(holdPath)) return new Promise(() => undefined);
     const { status, body } = answer(new URL(url, 'http://x'));
     return Promise.resolve(fakeResponse(status, body));
   });
@@ -262,6 +267,20 @@ describe('one skater and the notes behind a cell', () => {
 
     await tap('review-notes-close');
     expect(queryByTestIdWeb('review-notes')).toBeNull();
+  });
+
+  it("never shows one skater's counts under another's name while they load", async () => {
+    renderScreen();
+    await openList();
+    await tap(`review-skater-${ANNA}`);
+    await shown('review-matrix');
+    holdPath = `skaters/${BEREND}/weeks`;
+    await tap('review-list-toggle');
+    await shown(`review-skater-${BEREND}`);
+    await tap(`review-skater-${BEREND}`);
+    await waitFor(() => expect(textOf(getByTestIdWeb('review-table-heading'))).toBe('Berend Visser'));
+    expect(queryByTestIdWeb('review-matrix')).toBeNull();
+    expect(textOf(getByTestIdWeb('review-matrix-loading'))).toBe('Loading the counts…');
   });
 
   it('finds skaters by name and hides retired ones unless asked', async () => {
