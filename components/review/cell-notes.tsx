@@ -4,16 +4,20 @@
  * under it on a phone. Changing a note from here is not built: the panel says where it can be done.
  */
 import { useQuery } from '@tanstack/react-query';
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { cellNotesQuery } from '../../store/review';
 import { Banner, Button, Card, Heading, MarkBadge, Text, colors, spacing } from '../ui';
 import { longDay, weekSpanText } from './format';
+import { NoteEditor } from './note-editor';
 
 export type CellSelection = { skaterId: string; skaterName: string; cueId: string; cueLabel: string; week: string };
 
 export function CellNotes({ teamId, cell, onClose }: { teamId: string; cell: CellSelection; onClose: () => void }) {
   const notes = useQuery(cellNotesQuery(teamId, cell.skaterId, cell.cueId, cell.week));
+  const [editing, setEditing] = useState<string | null>(null);
+  const [message, setMessage] = useState('');
   let body;
   if (notes.isPending) body = <Text tone="muted" role="status">Loading the notes…</Text>;
   else if (notes.isError && !notes.data)
@@ -52,6 +56,28 @@ export function CellNotes({ teamId, cell, onClose }: { teamId: string; cell: Cel
                 (no words, just the mark)
               </Text>
             )}
+            {editing === note.id ? (
+              <NoteEditor
+                teamId={teamId}
+                note={note}
+                onDone={(said) => {
+                  setEditing(null);
+                  setMessage(said);
+                }}
+              />
+            ) : (
+              <Button
+                label="Change this note"
+                variant="quiet"
+                accessibilityLabel={`Change this note (${longDay(note.day)}, by ${note.authorName})`}
+                onPress={() => {
+                  setEditing(note.id);
+                  setMessage('');
+                }}
+                testID={`review-note-change-${note.id}`}
+                style={styles.change}
+              />
+            )}
           </View>
         ))}
       </View>
@@ -67,9 +93,14 @@ export function CellNotes({ teamId, cell, onClose }: { teamId: string; cell: Cel
         </View>
         <Button label="Close" variant="secondary" testID="review-notes-close" onPress={onClose} />
       </View>
+      {message ? (
+        <Banner kind="success" testID="review-notes-saved">
+          {message}
+        </Banner>
+      ) : null}
       {body}
       <Text variant="caption" tone="muted" testID="review-notes-edit-line">
-        Today’s notes can be changed or deleted on the Board. Changing older notes from here comes later.
+        A change made here goes out with sync, like one on the Board. Deleting a note is done on the Board, the day it was made.
       </Text>
     </Card>
   );
@@ -80,5 +111,6 @@ const styles = StyleSheet.create({
   title: { flex: 1, gap: spacing.xxs },
   stack: { gap: spacing.sm },
   note: { gap: spacing.xxs, paddingVertical: spacing.xs, borderTopWidth: 1, borderTopColor: colors.divider },
+  change: { alignSelf: 'flex-start' },
   noteHead: { flexDirection: 'row', flexWrap: 'wrap', alignItems: 'center', gap: spacing.sm },
 });

@@ -32,6 +32,15 @@ const NOTE1 = '0190a0b0-0000-7000-8000-000000000101';
 const NOTE2 = '0190a0b0-0000-7000-8000-000000000102';
 const SESSION = '0190a0b0-0000-7000-8000-000000000201';
 
+const mockUpdate = jest.fn(async (..._args: unknown[]) => undefined as unknown);
+jest.mock('../../store/board', () => ({
+  useUpdateObservation: () => ({ mutateAsync: (...args: unknown[]) => mockUpdate(...args), isPending: false }),
+}));
+const mockRunSync = jest.fn(async (..._args: unknown[]) => ({}) as unknown);
+jest.mock('../../store/sync-status', () => ({
+  runSync: (...args: unknown[]) => mockRunSync(...args),
+}));
+
 jest.mock('../../store/session', () => ({
   useActiveMembership: () => ({ teamId: '0190a0b0-0000-7000-8000-000000000001', role: 'head_coach', teamName: 'Test' }),
 }));
@@ -112,6 +121,10 @@ let holdPath: string | null = null;
 
 beforeEach(() => {
   holdPath = null;
+  mockUpdate.mockReset();
+  mockUpdate.mockResolvedValue(undefined);
+  mockRunSync.mockReset();
+  mockRunSync.mockResolvedValue({});
   fetchMock.mockReset();
   answer = defaultAnswer;
   fetchMock.mockImplementation((url: string) => {
@@ -267,6 +280,53 @@ describe('one skater and the notes behind a cell', () => {
 
     await tap('review-notes-close');
     expect(queryByTestIdWeb('review-notes')).toBeNull();
+  });
+
+  it('changes a note in place through the device store, sends it and asks for the counts again', async () => {
+    renderScreen();
+    await openList();
+    await tap(`review-skater-${ANNA}`);
+    await shown('review-matrix');
+    await fireWeb(byLabel(`Sit lower, week ${W[0]}: 3 needs work, 1 good`)!, 'onPress');
+    await shown(`review-note-change-${NOTE2}`);
+    const cellsBefore = reviewUrls(`skaters/${ANNA}/cells`).length;
+    const weeksBefore = reviewUrls(`skaters/${ANNA}/weeks`).length;
+
+    await tap(`review-note-change-${NOTE2}`);
+    await tap(`review-edit-mark-nw-${NOTE2}`);
+    await fireWeb(getByTestIdWeb(`review-edit-text-${NOTE2}`), 'onChangeText', 'Knee drifts in');
+    await tap(`review-edit-shared-${NOTE2}`);
+    await tap(`review-edit-save-${NOTE2}`);
+    await shown('review-notes-saved');
+    expect(mockUpdate).toHaveBeenCalledWith({
+      sessionId: SESSION,
+      id: NOTE2,
+      patch: { mark: 'needs_work', note: 'Knee drifts in', noteShared: true },
+    });
+    expect(mockRunSync).toHaveBeenCalledWith(TEAM);
+    expect(textOf(getByTestIdWeb('review-notes-saved'))).toContain('Saved and sent');
+    await waitFor(() => expect(reviewUrls(`skaters/${ANNA}/cells`).length).toBeGreaterThan(cellsBefore));
+    await waitFor(() => expect(reviewUrls(`skaters/${ANNA}/weeks`).length).toBeGreaterThan(weeksBefore));
+    expect(queryByTestIdWeb(`review-edit-${NOTE2}`)).toBeNull();
+  });
+
+  it("says why the device refused a change, and says when it waits for the next sync", async () => {
+    mockUpdate.mockRejectedValueOnce(new Error("Only the head coach or the note's author can change it"));
+    renderScreen();
+    await openList();
+    await tap(`review-skater-${ANNA}`);
+    await shown('review-matrix');
+    await fireWeb(byLabel(`Sit lower, week ${W[0]}: 3 needs work, 1 good`)!, 'onPress');
+    await shown(`review-note-change-${NOTE1}`);
+    await tap(`review-note-change-${NOTE1}`);
+    await tap(`review-edit-save-${NOTE1}`);
+    expect(textOf(getByTestIdWeb(`review-edit-error-${NOTE1}`))).toBe("Only the head coach or the note's author can change it");
+    expect(mockRunSync).not.toHaveBeenCalled();
+
+    mockRunSync.mockResolvedValueOnce(null);
+    await tap(`review-edit-save-${NOTE1}`);
+    await shown('review-notes-saved');
+    expect(textOf(getByTestIdWeb('review-notes-saved'))).toContain('sent with the next sync');
   });
 
   it("never shows one skater's counts under another's name while they load", async () => {
