@@ -2,8 +2,9 @@
  * The evening review against the real server: a head coach whose notes (two skaters, one cue, in
  * this week and weeks before) reach the server through the sync push, as the board sends them.
  * At 1440 px: the whole team's table and one skater's show the counts the data says, an empty
- * week says "no marks", the notes behind a cell show with their day, coach, mark and words; the
- * one-week table too. At 390 px the same screen is stacked, every target at least 48 px. axe
+ * week says "no marks", the notes behind a cell show with their day, coach, mark and words, and a
+ * mis-tapped mark is changed in place (device store, sync) and the counts follow; the one-week
+ * table too. At 390 px the same screen is stacked, every target at least 48 px. axe
  * checks both widths; screenshots 'review-skater' and 'review-week' are kept.
  */
 import { readFileSync } from 'node:fs';
@@ -156,6 +157,15 @@ test('a coach reads the week-by-week counts and the notes behind a cell, wide an
   await expect(notes.getByLabel('Good', { exact: true })).toHaveCount(1);
   await expect(notes.getByLabel('Needs work', { exact: true })).toHaveCount(2);
   await expectNoA11yViolations(page, 'review, one skater with a cell open');
+
+  // --- a mis-tap fixed in place: the wordless "needs work" was a good one; sync sends it, the counts follow ---
+  const wordless = notes.getByRole('listitem').filter({ hasText: '(no words, just the mark)' });
+  await wordless.getByRole('button', { name: /^Change this note/ }).click();
+  await wordless.getByRole('radio', { name: 'Good' }).click();
+  await wordless.getByRole('button', { name: 'Save' }).click();
+  await expect(page.getByTestId('review-notes-saved')).toContainText('Saved and sent', { timeout: 30_000 });
+  await expect(cell(thisWeek)).toHaveAttribute('aria-label', `${cue.label}, week ${thisWeek}: 1 needs work, 2 good`);
+  await expect(notes.getByLabel('Good', { exact: true })).toHaveCount(2);
   await shootBoth(page, 'review-skater');
 
   // --- the phone: stacked, the notes under the table, every target a thumb's size ---
@@ -175,7 +185,7 @@ test('a coach reads the week-by-week counts and the notes behind a cell, wide an
   await expect(page.getByTestId('review-week-shown')).toHaveText(`Week ${thisWeek}`);
   await expect(page.getByTestId(`review-wcell-${anna.id}-${cue.id}`)).toHaveAttribute(
     'aria-label',
-    `Anna Reede, ${cue.label}, week ${thisWeek}: 2 needs work, 1 good`,
+    `Anna Reede, ${cue.label}, week ${thisWeek}: 1 needs work, 2 good`,
   );
   await expect(page.getByTestId(`review-wcell-${berend.id}-${cue.id}`)).toHaveAttribute(
     'aria-label',
