@@ -166,6 +166,8 @@ test('a coach reads the week-by-week counts and the notes behind a cell, wide an
   await expect(page.getByTestId('review-notes-saved')).toContainText('Saved and sent', { timeout: 30_000 });
   await expect(cell(thisWeek)).toHaveAttribute('aria-label', `${cue.label}, week ${thisWeek}: 1 needs work, 2 good`);
   await expect(notes.getByLabel('Good', { exact: true })).toHaveCount(2);
+  // Saving scrolled the page to the panel's foot: the screenshots start at the top again.
+  await page.getByRole('heading', { name: 'Evening review' }).scrollIntoViewIfNeeded();
   await shootBoth(page, 'review-skater');
 
   // --- the phone: stacked, the notes under the table, every target a thumb's size ---
