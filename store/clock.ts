@@ -162,6 +162,40 @@ function useWriter() {
   return ref;
 }
 
+type DeviceStore = Awaited<ReturnType<typeof deviceStore>>;
+type Writer = ReturnType<typeof useWriter>['current'];
+
+/**
+ * A write to runs or crossings painted at once: `paint` changes the cached run lists before the
+ * store writes (it gets the lists as they were), and they are put back if the store refuses;
+ * either way the lists are re-read after, to take the store's word, and sync hears of it.
+ */
+function usePaintedRunWrite<TArgs, TResult>(
+  teamId: string,
+  write: (store: DeviceStore, args: TArgs, writer: Writer) => Promise<TResult>,
+  paint: (client: QueryClient, args: TArgs, saved: ReturnType<typeof snapshot>) => void,
+) {
+  const client = useQueryClient();
+  const writer = useWriter();
+  return useMutation({
+    networkMode: 'always',
+    mutationFn: async (args: TArgs): Promise<TResult> => {
+      const who = writer.current;
+      return write(await deviceStore(), args, who);
+    },
+    onMutate: async (args) => {
+      const saved = snapshot(client, teamId);
+      paint(client, args, saved);
+      return { saved };
+    },
+    onError: (_error, _args, context) => restore(client, context?.saved),
+    onSettled: () => {
+      void rereadRuns(client, teamId);
+      changed(client);
+    },
+  });
+}
+
 // ---- writes ------------------------------------------------------------------------------------
 
 export type StartHeatArgs = Pick<HeatStart, 'heatId' | 'startedAt' | 'day' | 'runs'>;
@@ -261,20 +295,16 @@ export interface CrossingRef {
  * the device, else a delete that syncs.
  */
 export function useDeleteCrossing(teamId: string) {
-  const client = useQueryClient();
-  const writer = useWriter();
-  return useMutation({
-    networkMode: 'always',
-    mutationFn: async (args: CrossingRef) => {
-      const { userId, role } = writer.current;
+  return usePaintedRunWrite(
+    teamId,
+    async (store, args: CrossingRef, { userId, role }) => {
       try {
-        await (await deviceStore()).removeCrossings([args.id], userId, role);
+        await store.removeCrossings([args.id], userId, role);
       } finally {
         inFlight.delete(args.id);
       }
     },
-    onMutate: async (args) => {
-      const saved = snapshot(client, teamId);
+    (client, args, saved) => {
       const runId = args.runId ?? saved.flatMap(([, runs]) => runs ?? []).find((r) => r.crossings.some((c) => c.id === args.id))?.id;
       if (runId) inFlight.set(args.id, { runId, crossing: null });
       client.setQueriesData<RunWithCrossings[]>({ queryKey: clockKeys.runs(teamId) }, (old) =>
@@ -282,14 +312,8 @@ export function useDeleteCrossing(teamId: string) {
           ? old.map((r) => (r.crossings.some((c) => c.id === args.id) ? { ...r, crossings: r.crossings.filter((c) => c.id !== args.id) } : r))
           : old,
       );
-      return { saved };
     },
-    onError: (_error, _args, context) => restore(client, context?.saved),
-    onSettled: () => {
-      void rereadRuns(client, teamId);
-      changed(client);
-    },
-  });
+  );
 }
 
 /** Undo of the last tap on a lane: the same as deleting that crossing. */
@@ -297,16 +321,10 @@ export const useUndoCrossing = useDeleteCrossing;
 
 /** Moves a crossing's time or marks it hand-timed (after the race). */
 export function useEditCrossing(teamId: string) {
-  const client = useQueryClient();
-  const writer = useWriter();
-  return useMutation({
-    networkMode: 'always',
-    mutationFn: async ({ id, ...patch }: { id: string } & CrossingPatch): Promise<Crossing> => {
-      const { userId, role } = writer.current;
-      return (await deviceStore()).updateCrossing(id, userId, patch, role);
-    },
-    onMutate: async ({ id, ...patch }) => {
-      const saved = snapshot(client, teamId);
+  return usePaintedRunWrite(
+    teamId,
+    (store, { id, ...patch }: { id: string } & CrossingPatch, { userId, role }): Promise<Crossing> => store.updateCrossing(id, userId, patch, role),
+    (client, { id, ...patch }) => {
       client.setQueriesData<RunWithCrossings[]>({ queryKey: clockKeys.runs(teamId) }, (old) =>
         old?.some((r) => r.crossings.some((c) => c.id === id))
           ? old.map((r) =>
@@ -314,39 +332,19 @@ export function useEditCrossing(teamId: string) {
             )
           : old,
       );
-      return { saved };
     },
-    onError: (_error, _args, context) => restore(client, context?.saved),
-    onSettled: () => {
-      void rereadRuns(client, teamId);
-      changed(client);
-    },
-  });
+  );
 }
 
 export type EditRunArgs = { runId: string } & RunPatch;
 
 /** Changes a run (its note, its status, what was set up wrong); painted at once. */
 export function useEditRun(teamId: string) {
-  const client = useQueryClient();
-  const writer = useWriter();
-  return useMutation({
-    networkMode: 'always',
-    mutationFn: async ({ runId, ...patch }: EditRunArgs): Promise<Run> => {
-      const { userId, role } = writer.current;
-      return (await deviceStore()).updateRun(runId, userId, patch, role);
-    },
-    onMutate: async ({ runId, ...patch }) => {
-      const saved = snapshot(client, teamId);
-      patchRun(client, teamId, runId, (run) => ({ ...run, ...patch }));
-      return { saved };
-    },
-    onError: (_error, _args, context) => restore(client, context?.saved),
-    onSettled: () => {
-      void rereadRuns(client, teamId);
-      changed(client);
-    },
-  });
+  return usePaintedRunWrite(
+    teamId,
+    (store, { runId, ...patch }: EditRunArgs, { userId, role }): Promise<Run> => store.updateRun(runId, userId, patch, role),
+    (client, { runId, ...patch }) => patchRun(client, teamId, runId, (run) => ({ ...run, ...patch })),
+  );
 }
 
 export interface FinishRunArgs {
@@ -357,50 +355,28 @@ export interface FinishRunArgs {
 
 /** Ends a run: finished, or stopped with a reason (a fall, a disqualification); kept either way. */
 export function useFinishRun(teamId: string) {
-  const client = useQueryClient();
-  const writer = useWriter();
-  return useMutation({
-    networkMode: 'always',
-    mutationFn: async ({ runId, status, stopReason }: FinishRunArgs): Promise<Run> => {
-      const { userId, role } = writer.current;
-      return (await deviceStore()).finishRun(runId, userId, { status, stopReason }, role);
-    },
-    onMutate: async ({ runId, status, stopReason }) => {
-      const saved = snapshot(client, teamId);
-      patchRun(client, teamId, runId, (run) => ({ ...run, status, stopReason: status === 'stopped' ? (stopReason ?? '') : '' }));
-      return { saved };
-    },
-    onError: (_error, _args, context) => restore(client, context?.saved),
-    onSettled: () => {
-      void rereadRuns(client, teamId);
-      changed(client);
-    },
-  });
+  return usePaintedRunWrite(
+    teamId,
+    (store, { runId, status, stopReason }: FinishRunArgs, { userId, role }): Promise<Run> =>
+      store.finishRun(runId, userId, { status, stopReason }, role),
+    (client, { runId, status, stopReason }) =>
+      patchRun(client, teamId, runId, (run) => ({ ...run, status, stopReason: status === 'stopped' ? (stopReason ?? '') : '' })),
+  );
 }
 
 /** Deletes a run (a false start) with its crossings; gone without a trace if it never left the device. */
 export function useDeleteRun(teamId: string) {
-  const client = useQueryClient();
-  const writer = useWriter();
-  return useMutation({
-    networkMode: 'always',
-    mutationFn: async ({ runId }: { runId: string }) => {
-      const { userId, role } = writer.current;
-      await (await deviceStore()).removeRun(runId, userId, role);
+  return usePaintedRunWrite(
+    teamId,
+    async (store, { runId }: { runId: string }, { userId, role }) => {
+      await store.removeRun(runId, userId, role);
     },
-    onMutate: async ({ runId }) => {
-      const saved = snapshot(client, teamId);
+    (client, { runId }) => {
       client.setQueriesData<RunWithCrossings[]>({ queryKey: clockKeys.runs(teamId) }, (old) =>
         old?.some((r) => r.id === runId) ? old.filter((r) => r.id !== runId) : old,
       );
-      return { saved };
     },
-    onError: (_error, _args, context) => restore(client, context?.saved),
-    onSettled: () => {
-      void rereadRuns(client, teamId);
-      changed(client);
-    },
-  });
+  );
 }
 
 /** Sets a skater's target for a distance (one record per skater, track and distance, team-wide). */
