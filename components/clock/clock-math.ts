@@ -293,6 +293,20 @@ export function runTable(run: Pick<ClockRun, 'distanceM' | 'track' | 'crossings'
   return rows;
 }
 
+/** A section's name in a run's table, with " (hand)" when its crossing was hand-timed. */
+export const rowLabel = (row: Pick<TableRow, 'name' | 'handTimed'>) => `${row.name}${row.handTimed ? ' (hand)' : ''}`;
+
+/**
+ * The line under a run's table saying what its marks mean: the gap's signs when the run has a
+ * schedule (`whose`: "the" schedule on the coach's clock, "your" on the skater's page), and
+ * "(hand)" when a row carries it; null when there is neither.
+ */
+export function tableLegend(rows: readonly Pick<TableRow, 'handTimed'>[], hasSchedule: boolean, whose: 'the' | 'your'): string | null {
+  const hand = rows.some((r) => r.handTimed) ? '(hand): hand-timed.' : '';
+  if (hasSchedule) return `Gap to ${whose} schedule: + behind, \u2212 ahead.${hand ? ` ${hand}` : ''}`;
+  return hand || null;
+}
+
 /** The sentence read aloud at a crossing ("Lap three, twenty-nine eight, plus three tenths"). */
 export function splitSentence(
   run: Pick<ClockRun, 'distanceM' | 'track'>,

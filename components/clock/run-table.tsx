@@ -13,7 +13,18 @@ import { StyleSheet, View } from 'react-native';
 import { formatRaceTime, parseRaceTime } from '../../shared/timing';
 import { Banner, Button, Text, TextField, ToggleRow, colors, fonts, radius, spacing } from '../ui';
 import { Armband } from './armband';
-import { distanceLabel, layoutFor, planWords, runTable, trackLabel, type ClockRun, type ClockTarget, type TableRow } from './clock-math';
+import {
+  distanceLabel,
+  layoutFor,
+  planWords,
+  rowLabel,
+  runTable,
+  tableLegend,
+  trackLabel,
+  type ClockRun,
+  type ClockTarget,
+  type TableRow,
+} from './clock-math';
 import type { PaceEntry } from '../../shared/timing';
 
 export type RunTableActions = {
@@ -59,6 +70,7 @@ function problemFor(run: ClockRun, atMs: number, exceptId?: string): string | nu
 export const RunTable = memo(function RunTable(props: RunTableProps) {
   const { run, name, number, schedule, target, wide, live = false, testID } = props;
   const rows = useMemo(() => runTable(run, schedule), [run, schedule]);
+  const legend = tableLegend(rows, !!schedule, 'the');
   const layout = layoutFor(run.distanceM, run.track, run.crossings.length);
   const complete = !layout.free && run.crossings.length === layout.splitsAtM.length;
   const finalSplit = complete ? rows[rows.length - 1]?.split ?? null : null;
@@ -116,13 +128,9 @@ export const RunTable = memo(function RunTable(props: RunTableProps) {
           ))}
         </View>
       )}
-      {schedule ? (
+      {legend ? (
         <Text variant="caption" tone="muted">
-          Gap to the schedule: + behind, {'\u2212'} ahead.{rows.some((r) => r.handTimed) ? ' (hand): hand-timed.' : ''}
-        </Text>
-      ) : rows.some((r) => r.handTimed) ? (
-        <Text variant="caption" tone="muted">
-          (hand): hand-timed.
+          {legend}
         </Text>
       ) : null}
 
@@ -194,8 +202,8 @@ function Row({
       <Cell first>
         {editable ? (
           <Button
-            label={`${row.name}${row.handTimed ? ' (hand)' : ''}`}
-            accessibilityLabel={`${row.name}${row.handTimed ? ' (hand)' : ''}: edit`}
+            label={rowLabel(row)}
+            accessibilityLabel={`${rowLabel(row)}: edit`}
             variant="quiet"
             testID={`${testID}-edit`}
             onPress={onOpen}
@@ -203,7 +211,7 @@ function Row({
           />
         ) : (
           <Text variant="caption" weight="bold">
-            {`${row.name}${row.handTimed ? ' (hand)' : ''}`}
+            {rowLabel(row)}
           </Text>
         )}
       </Cell>

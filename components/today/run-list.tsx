@@ -14,8 +14,10 @@ import {
   laneWord,
   layoutFor,
   planWords,
+  rowLabel,
   runTable,
   scheduleForRun,
+  tableLegend,
   targetFor,
   trackLabel,
   type ClockRun,
@@ -44,6 +46,7 @@ export function RunList({ runs, targets }: { runs: readonly ClockRun[]; targets?
 function RunCard({ run, targets }: { run: ClockRun; targets?: readonly ClockTarget[] }) {
   const schedule = scheduleForRun(run, targets);
   const rows = runTable(run, schedule);
+  const legend = tableLegend(rows, !!schedule, 'your');
   const layout = layoutFor(run.distanceM, run.track, run.crossings.length);
   const complete = !layout.free && rows.length === layout.splitsAtM.length;
   const target = targetFor(targets, run.skaterId, run.distanceM, run.track);
@@ -87,7 +90,7 @@ function RunCard({ run, targets }: { run: ClockRun; targets?: readonly ClockTarg
           </View>
           {rows.map((row) => (
             <View role="row" key={row.crossingId} style={styles.row} testID={`${id}-row-${row.index}`}>
-              <Cell first>{`${row.name}${row.handTimed ? ' (hand)' : ''}`}</Cell>
+              <Cell first>{rowLabel(row)}</Cell>
               <Cell testID={`${id}-row-${row.index}-lap`}>{row.lap}</Cell>
               <Cell testID={`${id}-row-${row.index}-split`}>{row.split}</Cell>
               <Cell testID={`${id}-row-${row.index}-kmh`}>{row.kmh}</Cell>
@@ -98,13 +101,9 @@ function RunCard({ run, targets }: { run: ClockRun; targets?: readonly ClockTarg
           ))}
         </View>
       )}
-      {schedule ? (
+      {legend ? (
         <Text variant="caption" tone="muted">
-          Gap to your schedule: + behind, {'\u2212'} ahead.{rows.some((r) => r.handTimed) ? ' (hand): hand-timed.' : ''}
-        </Text>
-      ) : rows.some((r) => r.handTimed) ? (
-        <Text variant="caption" tone="muted">
-          (hand): hand-timed.
+          {legend}
         </Text>
       ) : null}
     </View>

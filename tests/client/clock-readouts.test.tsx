@@ -14,9 +14,11 @@ import {
   isDoubleTap,
   laneReadout,
   parseOffset,
+  rowLabel,
   runTable,
   scheduleForRun,
   splitSentence,
+  tableLegend,
   type ClockRun,
   type ClockTarget,
 } from '../../components/clock/clock-math';
@@ -115,6 +117,15 @@ describe('the finished run table', () => {
     const rows = runTable({ ...run, crossings: [...run.crossings, { id: 'x', atMs: 10_000, handTimed: false }].reverse() });
     expect(rows.map((r) => r.name)).toEqual(['Opener', 'Lap 1', 'Lap 2', 'Finish', 'Extra 1']);
     expect(rows[0].split).toBe('10.00');
+  });
+  it('labels a hand-timed section and says what the marks under the table mean', () => {
+    const rows = runTable(run, target);
+    expect(rows.map(rowLabel)).toEqual(['Opener', 'Lap 1', 'Lap 2 (hand)', 'Finish']);
+    expect(tableLegend(rows, true, 'the')).toBe('Gap to the schedule: + behind, \u2212 ahead. (hand): hand-timed.');
+    expect(tableLegend(rows, false, 'your')).toBe('(hand): hand-timed.');
+    const noneByHand = rows.map((r) => ({ ...r, handTimed: false }));
+    expect(tableLegend(noneByHand, true, 'your')).toBe('Gap to your schedule: + behind, \u2212 ahead.');
+    expect(tableLegend(noneByHand, false, 'the')).toBeNull();
   });
 });
 
