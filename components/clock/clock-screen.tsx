@@ -121,11 +121,7 @@ export function ClockScreen() {
         {heatRuns.map((run, i) => (
           <RunTable
             key={run.id}
-            run={run}
-            name={nameOf(run.skaterId)}
-            number={run.lane === 'group' ? i + 1 : undefined}
-            schedule={scheduleForRun(run, targets)}
-            target={targetFor(targets, run.skaterId, run.distanceM, run.track)}
+            {...runTableFor(run, i, nameOf, targets)}
             wide
             live
             testID={`live-table-${lanes[i].key}`}
@@ -259,13 +255,27 @@ function SetupNotice() {
   );
 }
 
+/** A run's lane in its heat: "inner", "outer", or "group-N" (its place in the group, from 1). */
+const laneKey = (run: ClockRun, index: number) => (run.lane === 'group' ? `group-${index + 1}` : run.lane);
+
+/** A run's table's own props: the skater, their number in a group, the schedule and target it is measured against. */
+function runTableFor(run: ClockRun, index: number, nameOf: (id: string) => string, targets?: readonly ClockTarget[]) {
+  return {
+    run,
+    name: nameOf(run.skaterId),
+    number: run.lane === 'group' ? index + 1 : undefined,
+    schedule: scheduleForRun(run, targets),
+    target: targetFor(targets, run.skaterId, run.distanceM, run.track),
+  };
+}
+
 function laneView(run: ClockRun, index: number, nameOf: (id: string) => string, targets?: readonly ClockTarget[]): LaneView {
   const schedule = scheduleForRun(run, targets);
   const times = run.crossings.map((c) => c.atMs);
   const number = run.lane === 'group' ? index + 1 : undefined;
   return {
     runId: run.id,
-    key: run.lane === 'group' ? `group-${number}` : run.lane,
+    key: laneKey(run, index),
     lane: run.lane,
     number,
     name: nameOf(run.skaterId),
@@ -343,13 +353,9 @@ const DayHeats = memo(function DayHeats({
               ? hr.map((run, i) => (
                   <RunTable
                     key={run.id}
-                    run={run}
-                    name={nameOf(run.skaterId)}
-                    number={run.lane === 'group' ? i + 1 : undefined}
-                    schedule={scheduleForRun(run, targets)}
-                    target={targetFor(targets, run.skaterId, run.distanceM, run.track)}
+                    {...runTableFor(run, i, nameOf, targets)}
                     wide={wide}
-                    testID={`run-${run.lane === 'group' ? `group-${i + 1}` : run.lane}${heatId === shownHeatId ? '' : `-${key}`}`}
+                    testID={`run-${laneKey(run, i)}${heatId === shownHeatId ? '' : `-${key}`}`}
                     {...actions}
                   />
                 ))
