@@ -4,28 +4,18 @@
  * evening review, the squad, and the skater's today page. Any violation fails the run and names
  * the rule, the screen, the width and the elements (every screen is checked before a test fails).
  */
-import { expect, test, type Page } from '@playwright/test';
-import { apiCoachWithSkaters, DESKTOP, expectNoA11yViolations, linkFromMail, PHONE, signInThroughForm, uniqueEmail, watchErrors } from './support';
+import { expect, test } from '@playwright/test';
+import { apiCoachWithSkaters, checkA11yAtBothWidths, linkFromMail, PHONE, signInThroughForm, uniqueEmail, watchErrors } from './support';
 import { tapCue } from './board-phone-taps';
-
-/** Checks the screen at both widths, waiting for `ready` after each resize. */
-async function checkBoth(page: Page, label: string, ready: () => Promise<unknown>) {
-  for (const size of [PHONE, DESKTOP]) {
-    await page.setViewportSize(size);
-    await ready();
-    await expectNoA11yViolations(page, label);
-  }
-  await page.setViewportSize(PHONE);
-}
 
 test('signed-out screens have no accessibility violations', async ({ page, baseURL }) => {
   const errors = watchErrors(page);
   await page.goto(`${baseURL}/sign-in`);
-  await checkBoth(page, 'sign-in', () => expect(page.getByTestId('sign-in-submit')).toBeVisible());
+  await checkA11yAtBothWidths(page, 'sign-in', () => expect(page.getByTestId('sign-in-submit')).toBeVisible());
   await page.goto(`${baseURL}/sign-up`);
-  await checkBoth(page, 'sign-up', () => expect(page.getByTestId('sign-up-submit')).toBeVisible());
+  await checkA11yAtBothWidths(page, 'sign-up', () => expect(page.getByTestId('sign-up-submit')).toBeVisible());
   await page.goto(`${baseURL}/forgot-password`);
-  await checkBoth(page, 'forgot password', () => expect(page.getByTestId('forgot-submit')).toBeVisible());
+  await checkA11yAtBothWidths(page, 'forgot password', () => expect(page.getByTestId('forgot-submit')).toBeVisible());
   errors();
 });
 
@@ -41,25 +31,25 @@ test("the coach's screens have no accessibility violations", async ({ page, base
   await page.getByTestId(`skater-tile-${skaters[0].id}`).click();
   await tapCue(page, cues[0]);
   await expect(page.locator('[data-testid^="feed-item-"]').first()).toBeAttached();
-  await checkBoth(page, 'board', () => expect(page.getByTestId(`skater-tile-${skaters[1].id}`)).toBeVisible());
+  await checkA11yAtBothWidths(page, 'board', () => expect(page.getByTestId(`skater-tile-${skaters[1].id}`)).toBeVisible());
 
   await page.getByTestId('session-panel').first().scrollIntoViewIfNeeded();
-  await checkBoth(page, 'session panel', () => expect(page.getByTestId('session-panel').first()).toBeAttached());
+  await checkA11yAtBothWidths(page, 'session panel', () => expect(page.getByTestId('session-panel').first()).toBeAttached());
 
   await page.getByTestId('cue-library-open').first().click();
-  await checkBoth(page, 'cue library', () => expect(page.getByTestId('cue-library')).toBeVisible());
+  await checkA11yAtBothWidths(page, 'cue library', () => expect(page.getByTestId('cue-library')).toBeVisible());
   await page.getByTestId('cue-library-close').click();
 
   await page.getByTestId('sync-summary').first().click();
-  await checkBoth(page, 'sync panel', () => expect(page.getByTestId('sync-panel')).toBeVisible());
+  await checkA11yAtBothWidths(page, 'sync panel', () => expect(page.getByTestId('sync-panel')).toBeVisible());
   await page.getByTestId('sync-close').click();
 
   await page.getByTestId('tab-clock').click();
-  await checkBoth(page, 'clock', () => expect(page.getByTestId('clock-home')).toBeVisible());
+  await checkA11yAtBothWidths(page, 'clock', () => expect(page.getByTestId('clock-home')).toBeVisible());
   await page.getByTestId('tab-review').click();
-  await checkBoth(page, 'review', () => expect(page.getByTestId('review-home')).toBeVisible());
+  await checkA11yAtBothWidths(page, 'review', () => expect(page.getByTestId('review-home')).toBeVisible());
   await page.getByTestId('tab-squad').click();
-  await checkBoth(page, 'squad', () => expect(page.getByTestId('squad-list-pane')).toBeVisible());
+  await checkA11yAtBothWidths(page, 'squad', () => expect(page.getByTestId('squad-list-pane')).toBeVisible());
   errors();
 });
 
@@ -103,7 +93,7 @@ test("the skater's today page has no accessibility violations", async ({ browser
   await page.getByTestId('sign-in-email').fill(email);
   await page.getByTestId('sign-in-password').fill('edges-sharp-today');
   await page.getByTestId('sign-in-submit').click();
-  await checkBoth(page, 'today', () => expect(page.locator('[data-testid^="note-cue-"]').first()).toBeVisible({ timeout: 60_000 }));
+  await checkA11yAtBothWidths(page, 'today', () => expect(page.locator('[data-testid^="note-cue-"]').first()).toBeVisible({ timeout: 60_000 }));
   errors();
   await context.close();
 });

@@ -22,8 +22,8 @@ import { expect, test, type Page } from '@playwright/test';
 import { tapCue } from './board-phone-taps';
 import {
   apiCoachWithSkaters,
-  DESKTOP,
-  expectNoA11yViolations,
+  checkA11yAtBothWidths,
+  expectTapTargetsAtLeast,
   inviteAndAccept,
   ownServer,
   PHONE,
@@ -75,26 +75,6 @@ async function expectLane(page: Page, lane: 'inner' | 'outer', who: typeof ANNA,
   await expect(page.getByTestId(`${id}-gap`)).toContainText(who.gaps[i].startsWith('+') ? 'behind' : 'ahead');
   await expect(page.getByTestId(`${id}-togo`)).toHaveText(toGo);
   if (predicted) await expect(page.getByTestId(`${id}-predicted`)).toHaveText(predicted);
-}
-
-/** Every button inside the clock is at least 48 × 48 px. */
-async function expectButtonsAtLeast48(page: Page) {
-  const small = await page.getByTestId('clock-home').evaluate((root) =>
-    [...root.querySelectorAll('[role="button"], button, [role="switch"], [role="radio"], a')]
-      .map((el) => ({ el, box: el.getBoundingClientRect() }))
-      .filter(({ box }) => box.width > 0 && box.height > 0 && (box.height < 47.5 || box.width < 47.5))
-      .map(({ el, box }) => `${el.getAttribute('data-testid') ?? el.textContent} ${Math.round(box.width)}x${Math.round(box.height)}`),
-  );
-  expect(small, `buttons under 48 px: ${small.join(', ')}`).toEqual([]);
-}
-
-async function checkBoth(page: Page, label: string, ready: () => Promise<unknown>) {
-  for (const size of [PHONE, DESKTOP]) {
-    await page.setViewportSize(size);
-    await ready();
-    await expectNoA11yViolations(page, label);
-  }
-  await page.setViewportSize(PHONE);
 }
 
 /** Screenshots at both widths with every scroller at its top (the shell scrolls inside the page). */
@@ -154,8 +134,8 @@ test('a 1500 m pair timed at the boards, reloaded mid-race, finished, synced and
   await setTarget(page, bram.id, '1:57.00', 'shares');
   await expect(page.getByTestId(`setup-target-${anna.id}`)).toHaveText('Target 1:58.00, even pace');
   await expect(page.getByTestId(`setup-target-${bram.id}`)).toHaveText('Target 1:57.00, section shares');
-  await expectButtonsAtLeast48(page);
-  await checkBoth(page, 'clock setup', () => expect(page.getByTestId('clock-start')).toBeVisible());
+  await expectTapTargetsAtLeast(page, 'clock-home', { min: 47.5 });
+  await checkA11yAtBothWidths(page, 'clock setup', () => expect(page.getByTestId('clock-start')).toBeVisible());
   await shoot(page, 'clock-setup');
 
   // --- the gun ---
@@ -171,7 +151,7 @@ test('a 1500 m pair timed at the boards, reloaded mid-race, finished, synced and
   const boxes = await Promise.all(['inner', 'outer'].map((l) => page.getByTestId(`lane-tap-${l}`).boundingBox()));
   const area = boxes.reduce((sum, b) => sum + (b ? b.width * b.height : 0), 0);
   expect(area, `lane buttons cover ${Math.round(area)} px²`).toBeGreaterThanOrEqual(0.5 * PHONE.width * PHONE.height);
-  await expectButtonsAtLeast48(page);
+  await expectTapTargetsAtLeast(page, 'clock-home', { min: 47.5 });
 
   // Opener: Anna, Bram 0.3 s later (both count), then a glove's second tap on Anna 0.2 s after hers.
   await cross(page, 'inner', ANNA.cross[0]);
@@ -186,7 +166,7 @@ test('a 1500 m pair timed at the boards, reloaded mid-race, finished, synced and
   await cross(page, 'outer', BRAM.cross[1]);
   await expectLane(page, 'inner', ANNA, 1, '2 laps to go', '1:58.86');
   await expectLane(page, 'outer', BRAM, 1, '2 laps to go', '1:58.46');
-  await checkBoth(page, 'clock live', () => expect(page.getByTestId('lane-tap-inner')).toBeVisible());
+  await checkA11yAtBothWidths(page, 'clock live', () => expect(page.getByTestId('lane-tap-inner')).toBeVisible());
   await shoot(page, 'clock-live');
 
   // --- a reload mid-race: the heat comes back with every crossing, and carries on ---
@@ -226,8 +206,8 @@ test('a 1500 m pair timed at the boards, reloaded mid-race, finished, synced and
       await expect(page.getByTestId(`${row}-gap`)).toHaveText(who.gaps[i]);
     }
   }
-  await expectButtonsAtLeast48(page);
-  await checkBoth(page, 'clock finished', () => expect(page.getByTestId('clock-last-heat')).toBeVisible());
+  await expectTapTargetsAtLeast(page, 'clock-home', { min: 47.5 });
+  await checkA11yAtBothWidths(page, 'clock finished', () => expect(page.getByTestId('clock-last-heat')).toBeVisible());
   await shoot(page, 'clock-finished');
 
   // --- sync: the server holds exactly the taps (the double tap and the undone one never left) ---
@@ -272,7 +252,7 @@ test('a 1500 m pair timed at the boards, reloaded mid-race, finished, synced and
   }
   // Only her own run reaches her phone.
   await expect(b.locator('[data-testid^="today-run-"][data-testid$="-what"]')).toHaveCount(1);
-  await checkBoth(b, 'skater today with runs', () => expect(b.getByTestId(card)).toBeVisible());
+  await checkA11yAtBothWidths(b, 'skater today with runs', () => expect(b.getByTestId(card)).toBeVisible());
   await shoot(b, 'skater-today-runs');
   bErrors();
 
@@ -308,7 +288,7 @@ test('a training group of six on free laps: six lane buttons on one phone screen
     await expect(page.getByTestId(`lane-group-${i}-name`)).toHaveText(names[i - 1]);
   }
   expect(area, `group lane buttons cover ${Math.round(area)} px²`).toBeGreaterThanOrEqual(0.5 * PHONE.width * PHONE.height);
-  await expectButtonsAtLeast48(page);
+  await expectTapTargetsAtLeast(page, 'clock-home', { min: 47.5 });
 
   // Free laps: each crossing is a 400 m lap, counted up.
   const start = await anchor(page);
@@ -330,7 +310,7 @@ test('a training group of six on free laps: six lane buttons on one phone screen
   await page.getByTestId('group-undo-3').click();
   await expect(page.getByTestId('lane-group-3-togo')).toHaveText('0 laps');
   await expect(page.getByTestId('lane-group-4-status')).toHaveText('\u25A0 Stopped: Fall');
-  await checkBoth(page, 'clock live group', () => expect(page.getByTestId('lane-tap-group-1')).toBeVisible());
+  await checkA11yAtBothWidths(page, 'clock live group', () => expect(page.getByTestId('lane-tap-group-1')).toBeVisible());
   await shoot(page, 'clock-live-group');
 
   // End asks once more, then finishes everyone still skating free laps.

@@ -218,3 +218,33 @@ export async function expectNoA11yViolations(page: Page, label: string) {
   // Soft: every screen of a test is checked and reported before the test fails.
   expect.soft(violations, `accessibility violations on ${label} at ${width} px:\n${report}`).toEqual([]);
 }
+
+/** Checks the screen with axe at phone and desktop width, waiting for `ready` after each resize; ends at phone width. */
+export async function checkA11yAtBothWidths(page: Page, label: string, ready: () => Promise<unknown>) {
+  for (const size of [PHONE, DESKTOP]) {
+    await page.setViewportSize(size);
+    await ready();
+    await expectNoA11yViolations(page, label);
+  }
+  await page.setViewportSize(PHONE);
+}
+
+/**
+ * Every visible tap target inside the element with test id `rootTestId` (buttons, switches,
+ * radios, links, and text fields with `fields`) is at least `min` px wide and high (48 unless
+ * told); fails naming each one that is smaller, with its size.
+ */
+export async function expectTapTargetsAtLeast(page: Page, rootTestId: string, { min = 48, fields = false }: { min?: number; fields?: boolean } = {}) {
+  const small = await page.getByTestId(rootTestId).evaluate(
+    (root, { min, fields }) =>
+      [...root.querySelectorAll(`[role="button"], button, [role="switch"], [role="radio"], a${fields ? ', input' : ''}`)]
+        .map((el) => ({ el, box: el.getBoundingClientRect() }))
+        .filter(({ box }) => box.width > 0 && box.height > 0 && (box.width < min || box.height < min))
+        .map(
+          ({ el, box }) =>
+            `${el.getAttribute('data-testid') || el.getAttribute('aria-label') || el.textContent?.trim() || el.tagName} ${Math.round(box.width)}x${Math.round(box.height)}`,
+        ),
+    { min, fields },
+  );
+  expect(small, `tap targets under ${min} px inside ${rootTestId}:\n${small.join('\n')}`).toEqual([]);
+}
