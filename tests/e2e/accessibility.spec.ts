@@ -5,7 +5,7 @@
  * the rule, the screen, the width and the elements (every screen is checked before a test fails).
  */
 import { expect, test } from '@playwright/test';
-import { apiCoachWithSkaters, checkA11yAtBothWidths, linkFromMail, PHONE, signInThroughForm, uniqueEmail, watchErrors } from './support';
+import { apiCoachWithSkaters, checkA11yAtBothWidths, DESKTOP, expectNoA11yViolations, linkFromMail, PHONE, signInThroughForm, uniqueEmail, watchErrors } from './support';
 import { tapCue } from './board-phone-taps';
 
 test('signed-out screens have no accessibility violations', async ({ page, baseURL }) => {
@@ -33,16 +33,25 @@ test("the coach's screens have no accessibility violations", async ({ page, base
   await expect(page.locator('[data-testid^="feed-item-"]').first()).toBeAttached();
   await checkA11yAtBothWidths(page, 'board', () => expect(page.getByTestId(`skater-tile-${skaters[1].id}`)).toBeVisible());
 
-  await page.getByTestId('session-panel').first().scrollIntoViewIfNeeded();
+  // A width change swaps the phone and wide layouts: wait for the phone's board before scrolling.
+  await expect(page.getByTestId('board-phone')).toBeVisible();
+  await expect(async () => page.getByTestId('session-panel').first().scrollIntoViewIfNeeded({ timeout: 2_000 })).toPass();
   await checkA11yAtBothWidths(page, 'session panel', () => expect(page.getByTestId('session-panel').first()).toBeAttached());
 
   await page.getByTestId('cue-library-open').first().click();
   await checkA11yAtBothWidths(page, 'cue library', () => expect(page.getByTestId('cue-library')).toBeVisible());
   await page.getByTestId('cue-library-close').click();
 
-  await page.getByTestId('sync-summary').first().click();
-  await checkA11yAtBothWidths(page, 'sync panel', () => expect(page.getByTestId('sync-panel')).toBeVisible());
-  await page.getByTestId('sync-close').click();
+  // The sync panel is opened and closed at each width: a width change swaps the layout it sits in.
+  for (const size of [PHONE, DESKTOP]) {
+    await page.setViewportSize(size);
+    await page.getByTestId('sync-summary').first().click();
+    await expect(page.getByTestId('sync-panel')).toBeVisible();
+    await expectNoA11yViolations(page, 'sync panel');
+    await page.getByTestId('sync-close').click();
+    await expect(page.getByTestId('sync-panel')).toBeHidden();
+  }
+  await page.setViewportSize(PHONE);
 
   await page.getByTestId('tab-clock').click();
   await checkA11yAtBothWidths(page, 'clock', () => expect(page.getByTestId('clock-home')).toBeVisible());
