@@ -28,7 +28,15 @@ export function WeekGrid({
   const cell = (skaterId: string, cueId: string) =>
     grid.cells.find((c) => c.skaterId === skaterId && c.cueId === cueId) ?? { needsWork: 0, good: 0 };
   return (
-    <ScrollView horizontal style={styles.scroll} contentContainerStyle={styles.scrollContent}>
+    // Focusable and named, so a keyboard can scroll it sideways even when no cell is a button.
+    <ScrollView
+      horizontal
+      focusable
+      role="region"
+      aria-label={`Week ${grid.week}, scrolls sideways`}
+      style={styles.scroll}
+      contentContainerStyle={styles.scrollContent}
+    >
       <View role="table" aria-label={`Skaters by cue, ${subject}, week ${grid.week}`} testID="review-week-grid">
         <View role="row" style={[styles.row, styles.headRow]}>
           <View role="columnheader" style={styles.nameCell}>

@@ -44,8 +44,13 @@ export function WeekMatrix({ matrix, subject, onOpenCell, selected, compact = fa
   const scrolledFor = useRef('');
   const range = `${matrix.from}/${matrix.to}`;
   return (
+    // Focusable and named, so a keyboard can scroll it sideways even when no cell is a button
+    // (the whole group's counts open nothing).
     <ScrollView
       horizontal
+      focusable
+      role="region"
+      aria-label={`Weeks ${matrix.from} to ${matrix.to}, scrolls sideways`}
       ref={scroller}
       style={styles.scroll}
       contentContainerStyle={styles.scrollContent}

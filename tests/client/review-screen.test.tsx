@@ -193,6 +193,17 @@ describe('the whole-group matrix', () => {
     expect(getByTestIdWeb(`review-cell-${SIT}-${W[0]}`).props.role).toBe('img');
   });
 
+  it('lets a keyboard reach the table that scrolls sideways, even with no cell to open', async () => {
+    renderScreen();
+    await shown('review-matrix');
+    const regions = screen.UNSAFE_root.findAll(
+      (node) => typeof node.type === 'string' && /scrolls sideways/.test(String(node.props['aria-label'] ?? '')),
+    );
+    expect(regions).toHaveLength(1);
+    expect(regions[0].props.role).toBe('region');
+    expect(String(regions[0].props.tabIndex)).toBe('0');
+  });
+
   it('asks for a group, or skaters in no group, from the chips', async () => {
     renderScreen();
     await shown('review-matrix');
