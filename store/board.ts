@@ -18,6 +18,7 @@ import { deviceStore, localDay, sessionIdFor, type DeviceStore } from '../sync';
 import { useActiveMembership, useSession } from './session';
 import { notifyLocalChange } from './sync-status';
 import { useTeamSettings } from './team-settings';
+import { useMountedRef } from './use-mounted-ref';
 
 export const boardKeys = {
   all: ['device'] as const,
@@ -180,13 +181,7 @@ export function useRecordObservations() {
   const shareDefault = useTeamSettings(useActiveMembership()?.teamId).shareBoardNotes;
   const authorRef = useRef({ authorName, shareDefault });
   authorRef.current = { authorName, shareDefault };
-  const mounted = useRef(true);
-  useEffect(() => {
-    mounted.current = true;
-    return () => {
-      mounted.current = false;
-    };
-  }, []);
+  const mounted = useMountedRef();
   const [failure, setFailure] = useState<{ error: Error; variables: RecordVariables } | null>(null);
 
   const mutate = useCallback(

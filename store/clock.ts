@@ -29,6 +29,7 @@ import type {
 } from '../shared/schemas/clock';
 import { deviceStore } from '../sync';
 import { boardKeys } from './board';
+import { useMountedRef } from './use-mounted-ref';
 import { useActiveMembership, useSession } from './session';
 import { notifyLocalChange } from './sync-status';
 
@@ -243,13 +244,7 @@ export interface RecordCrossingArgs {
 export function useRecordCrossing(teamId: string) {
   const client = useQueryClient();
   const writer = useWriter();
-  const mounted = useRef(true);
-  useEffect(() => {
-    mounted.current = true;
-    return () => {
-      mounted.current = false;
-    };
-  }, []);
+  const mounted = useMountedRef();
   const [failure, setFailure] = useState<{ error: Error; variables: RecordCrossingArgs } | null>(null);
 
   const mutateAsync = useCallback(
