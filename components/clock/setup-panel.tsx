@@ -10,7 +10,7 @@ import { Pressable, StyleSheet, View } from 'react-native';
 
 import type { Skater } from '../../shared/schemas';
 import { formatRaceTime } from '../../shared/timing';
-import { Button, ChoiceChips, Heading, Text, TextField, colors, radius, spacing, tapTarget } from '../ui';
+import { Button, ChoiceChips, chipStyles, Heading, Text, TextField, colors, radius, spacing } from '../ui';
 import { Armband } from './armband';
 import {
   DISTANCES,
@@ -234,7 +234,7 @@ export const SetupPanel = memo(function SetupPanel({
                 role="button"
                 aria-pressed={!!where}
                 onPress={() => pick(s.id)}
-                style={[styles.chip, where ? styles.chipOn : null]}
+                style={[chipStyles.chip, where ? chipStyles.chipOn : null]}
               >
                 <Text weight={where ? 'bold' : 'regular'} tone={where ? 'inverse' : 'default'}>
                   {where ? `\u2713 ${s.displayName} \u00B7 ${where}` : s.displayName}
@@ -302,16 +302,6 @@ const styles = StyleSheet.create({
   slotOuter: {},
   targetRow: { alignItems: 'flex-start' },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
-  chip: {
-    minHeight: tapTarget,
-    paddingHorizontal: spacing.md,
-    justifyContent: 'center',
-    borderRadius: radius.pill,
-    borderWidth: 2,
-    borderColor: colors.border,
-    backgroundColor: colors.surface,
-  },
-  chipOn: { backgroundColor: colors.primary, borderColor: colors.primary },
   start: { alignSelf: 'flex-start' },
   startButton: {
     minHeight: 96,

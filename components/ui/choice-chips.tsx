@@ -55,9 +55,8 @@ export function ChoiceChips<T extends string>({ label, choices, value, onChange,
   );
 }
 
-const styles = StyleSheet.create({
-  wrap: { gap: spacing.xs },
-  row: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
+/** A chip's look, off and on: also used by chips that toggle (several picked) rather than choose one. */
+export const chipStyles = StyleSheet.create({
   chip: {
     minHeight: tapTarget,
     paddingHorizontal: spacing.md,
@@ -67,5 +66,12 @@ const styles = StyleSheet.create({
     borderColor: colors.border,
     backgroundColor: colors.surface,
   },
-  chipSelected: { backgroundColor: colors.primary, borderColor: colors.primary },
+  chipOn: { backgroundColor: colors.primary, borderColor: colors.primary },
+});
+
+const styles = StyleSheet.create({
+  wrap: { gap: spacing.xs },
+  row: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
+  chip: chipStyles.chip,
+  chipSelected: chipStyles.chipOn,
 });
