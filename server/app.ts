@@ -19,6 +19,9 @@ import { authRoutes } from './routes/auth';
 import { healthRoutes } from './routes/health';
 import { invitationRoutes } from './routes/invitations';
 import { reviewRoutes } from './routes/review';
+import { exportRoutes } from './routes/review-export';
+import { followUpRoutes } from './routes/review-follow-up';
+import { lapTrendRoutes } from './routes/review-laps';
 import { syncRoutes } from './routes/sync';
 import { teamRoutes } from './routes/teams';
 
@@ -94,6 +97,9 @@ export function createApp(dataSource: DataSource) {
   app.use('/api', invitationRoutes(dataSource));
   app.use('/api', teamRoutes(dataSource));
   app.use('/api', reviewRoutes(dataSource));
+  app.use('/api', lapTrendRoutes(dataSource));
+  app.use('/api', followUpRoutes(dataSource));
+  app.use('/api', exportRoutes(dataSource));
   app.use('/api', syncRoutes(dataSource));
   app.use('/api', (req) => {
     throw new HttpError(404, 'not_found', `No API route for ${req.method} ${req.path}`);

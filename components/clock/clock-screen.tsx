@@ -230,7 +230,7 @@ export function ClockScreen() {
         {shownHeatId ? null : dayList}
       </Screen>
       {editingTarget ? null : (
-        <View style={styles.startBar}>
+        <View style={styles.startBar} testID="clock-start-bar">
           <StartButton skaters={skaters} onStart={actions.startHeat} starting={actions.starting} compact />
         </View>
       )}

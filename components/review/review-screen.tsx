@@ -26,8 +26,15 @@ import { RangeEntry, RangeNav } from './range-controls';
 import { SkaterPane, groupName } from './skater-pane';
 import { WeekGrid } from './week-grid';
 import { WeekMatrix } from './week-matrix';
+import { ExportSection } from './export/export-section';
+import { FollowUpSection } from './follow-up/follow-up-section';
+import { LapTrendsSection } from './laps/lap-trends-section';
+import type { ReviewSectionProps } from './section-props';
+import { TidySection } from './tidy/tidy-section';
 
 type View3 = 'group' | 'skater' | 'week';
+/** The review's sections: the cue counts (the three views above) and the four beside them. */
+type Section = 'counts' | 'laps' | 'follow-up' | 'tidy' | 'export';
 
 const browserZone = () => {
   try {
@@ -79,6 +86,7 @@ export function ReviewScreen() {
   const wide = useBreakpoint() === 'wide';
   const online = useConnectivity((s) => s.online);
 
+  const [section, setSection] = useState<Section>('counts');
   const [view, setView] = useState<View3>('group');
   const [group, setGroup] = useState<ReviewGroup>('all');
   const [search, setSearch] = useState('');
@@ -293,15 +301,67 @@ export function ReviewScreen() {
 
   const notes = cell && teamId ? <CellNotes teamId={teamId} cell={cell} onClose={() => setCell(null)} /> : null;
 
+  const sectionProps: ReviewSectionProps = {
+    teamId,
+    skaters,
+    groups,
+    skaterId,
+    group,
+    onPickSkater: (id) => {
+      setSkaterId(id);
+      setCell(null);
+    },
+    timeZone,
+    wide,
+  };
+  const sectionChips = (
+    <ChoiceChips<Section>
+      label="Section"
+      choices={[
+        { value: 'counts', label: 'Cue counts', testID: 'review-section-counts' },
+        { value: 'laps', label: 'Lap times', testID: 'review-section-laps' },
+        { value: 'follow-up', label: 'Follow-up', testID: 'review-section-follow-up' },
+        { value: 'tidy', label: 'Tidy-up', testID: 'review-section-tidy' },
+        { value: 'export', label: 'Export and print', testID: 'review-section-export' },
+      ]}
+      value={section}
+      onChange={setSection}
+      testID="review-sections"
+    />
+  );
+  const header = (
+    <View style={styles.stack}>
+      <Heading>Evening review</Heading>
+      <Text tone="muted">
+        Which cues each skater got, week by week, from every coach’s notes; lap times against targets; whether a stressed cue
+        fades; the day’s notes tidied; and sheets to export or print.
+      </Text>
+    </View>
+  );
+  if (section !== 'counts') {
+    const body =
+      section === 'laps' ? (
+        <LapTrendsSection {...sectionProps} />
+      ) : section === 'follow-up' ? (
+        <FollowUpSection {...sectionProps} />
+      ) : section === 'tidy' ? (
+        <TidySection {...sectionProps} />
+      ) : (
+        <ExportSection {...sectionProps} />
+      );
+    return (
+      <Screen testID="review-home" edges={[]} width={wide ? 'full' : 'content'}>
+        {header}
+        {sectionChips}
+        <View testID={`review-section-${section}-body`}>{body}</View>
+      </Screen>
+    );
+  }
+
   return (
     <Screen testID="review-home" edges={[]} width={wide ? 'full' : 'content'}>
-      <View style={styles.stack}>
-        <Heading>Evening review</Heading>
-        <Text tone="muted">
-          Which cues each skater got, week by week, from every coach’s notes. Lap-time trends, follow-up, tidy-up and export are not
-          here yet.
-        </Text>
-      </View>
+      {header}
+      {sectionChips}
       {!online ? (
         <Banner kind="info" title="No connection to the server" testID="review-offline">
           {matrixQuery.data || weekGrid.data

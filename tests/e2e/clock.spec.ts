@@ -138,7 +138,9 @@ test('a 1500 m pair timed at the boards, reloaded mid-race, finished, synced and
   await checkA11yAtBothWidths(page, 'clock setup', () => expect(page.getByTestId('clock-start')).toBeVisible());
   await shoot(page, 'clock-setup');
 
-  // --- the gun ---
+  // --- the gun --- (on the phone layout's Start bar: the screenshots above ended at 1440 px)
+  await expect(page.getByTestId('clock-start-bar')).toBeVisible();
+  await expect(page.getByTestId('clock-start')).toHaveCount(1);
   const gun = await page.evaluate(() => performance.now());
   await touchAt(page, 'clock-start', gun);
   await expect(page.getByTestId('clock-live')).toBeVisible();

@@ -43,6 +43,18 @@ export async function shootBoth(page: Page, name: string) {
   await page.waitForTimeout(150);
   await page.screenshot({ path: path.join(SHOTS, `${name}-1440.png`), fullPage: true });
   await page.setViewportSize(PHONE);
+  await settleLayout(page);
+}
+
+/**
+ * Waits until the page has drawn at its current width: two animation frames after the resize, so
+ * a layout that swaps at a breakpoint (phone and wide) has re-rendered before the next tap lands.
+ * Without it a tap can reach an element of the old layout as React removes it.
+ */
+export async function settleLayout(page: Page) {
+  const width = page.viewportSize()?.width ?? 0;
+  await page.waitForFunction((w) => window.innerWidth === w, width);
+  await page.evaluate(() => new Promise<void>((resolve) => requestAnimationFrame(() => requestAnimationFrame(() => resolve()))));
 }
 
 /**
@@ -227,6 +239,7 @@ export async function checkA11yAtBothWidths(page: Page, label: string, ready: ()
     await expectNoA11yViolations(page, label);
   }
   await page.setViewportSize(PHONE);
+  await settleLayout(page);
 }
 
 /**
