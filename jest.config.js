@@ -20,6 +20,9 @@ module.exports = {
       preset: 'jest-expo/web',
       roots: ['<rootDir>/tests/client'],
       setupFiles: ['<rootDir>/tests/client/setup.ts'],
+      // The chart libraries (d3-scale, d3-shape and theirs) resolve to ES modules (.mjs), which
+      // jest's CommonJS runtime cannot load: it reads their UMD builds (dist/<name>.js) instead.
+      moduleNameMapper: { '^(d3-[a-z-]+|internmap)$': '<rootDir>/node_modules/$1/dist/$1.js' },
     },
     {
       displayName: 'server',
