@@ -3,7 +3,7 @@
  * with its mark, the coach's shared note and "Got it"; read aloud on request; earlier days one
  * tap away; a sync line with "Refresh". Everything is read from the device, so it works at the
  * rink without a network. On a phone one column; from 1024 px the days sit in a side pane and the
- * cues beside them.
+ * cues beside them. A link opens "my weeks" (components/my-weeks/): every week at once.
  */
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { useMemo, useState } from 'react';
@@ -14,7 +14,7 @@ import { useConnectivity } from '../../store/connectivity';
 import { useActiveMembership, useSession } from '../../store/session';
 import { runSync } from '../../store/sync-status';
 import { refreshToday, todayOnDevice, useAcknowledge, useSkaterDays, useSkaterName, useSkaterNotes } from '../../store/today';
-import { Banner, Button, Heading, Screen, Text, colors, layout, radius, spacing, useBreakpoint } from '../ui';
+import { Banner, Button, Heading, Screen, Text, TextLink, colors, layout, radius, spacing, useBreakpoint } from '../ui';
 import { SignOutButton } from '../auth/sign-out-button';
 import { DayHeader, RecentDays } from './day-chooser';
 import { groupByPhase, longDay, offeredDays, plural, shortDay, spokenScript } from './format';
@@ -89,6 +89,12 @@ export function TodayScreen() {
           </Text>
         </Text>
       )}
+      {/* Every week at once (counted on the server): cues by ISO week, shared notes, runs. */}
+      <TextLink
+        href="/weeks"
+        label={guardian ? `${possessive(skaterFirst)} weeks: cues and runs week by week` : 'My weeks: cues and runs week by week'}
+        testID="today-my-weeks"
+      />
     </View>
   );
 

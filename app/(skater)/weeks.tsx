@@ -1,0 +1,5 @@
+import { MyWeeksScreen } from '../../components/my-weeks/my-weeks-screen';
+
+export default function WeeksRoute() {
+  return <MyWeeksScreen />;
+}

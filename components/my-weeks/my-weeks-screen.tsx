@@ -1,0 +1,164 @@
+/**
+ * "My weeks" (issue #10 §6): the skater's own cues week by week and their finished runs, read
+ * only; a guardian sees the linked skater's. The cue table is the review's WeekMatrix (counts per
+ * ISO week in the team's zone, from the server); a cell opens the notes behind it, shared notes
+ * only. The runs come from the server too (review/skaters/:id/runs-by-week), so both cover the
+ * same weeks. Nothing on this screen changes anything: the buttons move the weeks, open and close
+ * a cell. Wide: the table beside the notes and runs; phone: stacked.
+ */
+import { useQuery } from '@tanstack/react-query';
+import { useState } from 'react';
+import { StyleSheet, View } from 'react-native';
+
+import { weekOf } from '../../shared/weeks';
+import { useConnectivity } from '../../store/connectivity';
+import { skaterWeeksQuery, type WeekRangeAsked } from '../../store/review';
+import { runsByWeekQuery } from '../../store/review-follow-up';
+import { useActiveMembership } from '../../store/session';
+import { useSkaterName } from '../../store/today';
+import { Banner, Button, Card, Heading, Screen, Text, TextLink, spacing, useBreakpoint } from '../ui';
+import { ReviewLegend } from '../review/legend';
+import { RangeNav } from '../review/range-controls';
+import { WeekMatrix } from '../review/week-matrix';
+import { RunsByWeek } from './runs-by-week';
+import { SharedNotes, type MyCell } from './shared-notes';
+
+const possessive = (name: string) => (name.endsWith('s') ? `${name}\u2019` : `${name}\u2019s`);
+
+export function MyWeeksScreen() {
+  const wide = useBreakpoint() === 'wide';
+  const membership = useActiveMembership();
+  const online = useConnectivity((s) => s.online);
+  const teamId = membership?.teamId ?? '';
+  const skaterId = membership?.skaterId ?? '';
+  const guardian = membership?.role === 'guardian';
+  const name = useSkaterName(teamId, skaterId);
+
+  const [range, setRange] = useState<WeekRangeAsked>(null);
+  const [cell, setCell] = useState<MyCell | null>(null);
+
+  const weeks = useQuery({ ...skaterWeeksQuery(teamId, skaterId, range), enabled: !!teamId && !!skaterId });
+  const runs = useQuery({ ...runsByWeekQuery(teamId, skaterId, range), enabled: !!teamId && !!skaterId });
+  const matrix = weeks.data;
+  const zone = matrix?.timeZone ?? 'UTC';
+  const currentWeek = weekOf(Date.now(), zone);
+  const first = (name ?? '').trim().split(/\s+/)[0] || 'Your skater';
+  const heading = guardian ? `${possessive(first)} weeks` : 'My weeks';
+
+  const moveRange = (next: WeekRangeAsked) => {
+    setRange(next);
+    setCell(null);
+  };
+
+  const top = (
+    <View style={styles.stack}>
+      <TextLink href="/today" label={'\u2190 Back to today'} testID="my-weeks-back" />
+      <Heading testID="my-weeks-heading">{heading}</Heading>
+      <Text tone="muted">
+        {guardian
+          ? `The cues ${first} got from the coaches, week by week, and the timed runs. You are viewing as a guardian: read only.`
+          : 'The cues you got from your coaches, week by week, and your timed runs. Tap a count to read the notes shared with you.'}
+      </Text>
+      {!online ? (
+        <Banner kind="info" title="No connection to the server" testID="my-weeks-offline">
+          {matrix ? 'These weeks are counted on the server. Below is what this device loaded last.' : 'These weeks are counted on the server: they show once you are online.'}
+        </Banner>
+      ) : null}
+    </View>
+  );
+
+  if (!skaterId)
+    return (
+      <Screen testID="my-weeks">
+        {top}
+        <Banner kind="info" testID="my-weeks-no-skater">
+          This account is not linked to a skater profile yet. Ask your head coach to link it.
+        </Banner>
+      </Screen>
+    );
+
+  const table = (
+    <Card testID="my-weeks-cues" style={wide ? styles.mainWide : undefined}>
+      <Heading level={2}>Cues by week</Heading>
+      <ReviewLegend />
+      {matrix ? (
+        <RangeNav shown={{ from: matrix.from, to: matrix.to }} currentWeek={currentWeek} isDefault={range === null} onRange={moveRange} compact={!wide} />
+      ) : null}
+      {weeks.isPending && !matrix ? (
+        <Text tone="muted" role="status" testID="my-weeks-loading">
+          Loading your weeks…
+        </Text>
+      ) : null}
+      {weeks.isError ? (
+        <View style={styles.stack}>
+          <Banner kind="error" title={matrix ? 'Showing the weeks loaded earlier' : 'Could not load the weeks'} testID="my-weeks-error">
+            {weeks.error.message}
+          </Banner>
+          <Button label="Try again" variant="secondary" onPress={() => void weeks.refetch()} testID="my-weeks-retry" />
+        </View>
+      ) : null}
+      {matrix && matrix.rows.length === 0 ? (
+        <Text tone="muted" testID="my-weeks-empty">
+          No cues in these weeks.
+        </Text>
+      ) : null}
+      {matrix && matrix.rows.length > 0 ? (
+        <WeekMatrix
+          matrix={matrix}
+          subject={guardian ? first : 'you'}
+          compact={!wide}
+          selected={cell}
+          onOpenCell={(pick) => setCell({ ...pick, skaterId })}
+        />
+      ) : null}
+      {matrix ? <Text variant="caption" tone="muted">{`Weeks run Monday to Sunday (${zone}).`}</Text> : null}
+    </Card>
+  );
+
+  const runList = (
+    <Card testID="my-weeks-runs-card">
+      <Heading level={2}>Timed runs</Heading>
+      {runs.isPending && !runs.data ? (
+        <Text tone="muted" role="status">
+          Loading the runs…
+        </Text>
+      ) : null}
+      {runs.isError && !runs.data ? (
+        <Banner kind="error" testID="my-weeks-runs-error">
+          {runs.error.message}
+        </Banner>
+      ) : null}
+      {runs.data ? <RunsByWeek weeks={runs.data.weeks} runs={runs.data.runs} /> : null}
+    </Card>
+  );
+
+  const notes = cell ? <SharedNotes teamId={teamId} cell={cell} onClose={() => setCell(null)} /> : null;
+
+  return (
+    <Screen testID="my-weeks" width={wide ? 'full' : 'content'}>
+      {top}
+      {wide ? (
+        <View style={styles.panes}>
+          {table}
+          <View style={styles.side}>
+            {notes}
+            {runList}
+          </View>
+        </View>
+      ) : (
+        <>
+          {table}
+          {notes}
+          {runList}
+        </>
+      )}
+    </Screen>
+  );
+}
+
+const styles = StyleSheet.create({
+  stack: { gap: spacing.sm },
+  panes: { flexDirection: 'row', alignItems: 'flex-start', gap: spacing.lg },
+  mainWide: { flex: 1, minWidth: 0 },
+  side: { width: 440, gap: spacing.lg },
+});
