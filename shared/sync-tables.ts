@@ -91,6 +91,14 @@ export interface SyncTable {
   /** The field of the record naming the skater it belongs to (for skaters' own writes and reads). */
   ownerField?: string;
   /**
+   * For a table whose `ownerField` may change (a note moved to another skater): a server-only
+   * column (a jsonb list of ids, never pulled) listing the skaters the record belonged to before. A skater or
+   * guardian of one of them pulls the record as an eviction, so it leaves the old skater's device
+   * on their next pull, while the new skater pulls it as a change. A move also clears the
+   * record's `writer: 'own_skater'` fields (the old skater's acknowledgement is not the new one's).
+   */
+  formerOwnersColumn?: string;
+  /**
    * The reference field naming the record this one belongs to (a crossing's run). Who may create,
    * change or delete the record is decided on that parent: with `changeBy: 'author_or_head_coach'`,
    * the parent's author and the head coach, for a new record too (a crossing added to someone
@@ -146,18 +154,28 @@ function targetCheck(target: Record<string, unknown>, { id, teamId }: { id: stri
 }
 
 export const syncTables: Record<SyncTableName, SyncTable> = {
+  // Tidy-up (the evening review) moves notes: sessionId, skaterId and cueId are editable fields,
+  // last writer wins per field like mark and note, rather than a delete and a re-create. Why:
+  // - the note keeps its id, so its author (createdBy, authorName) and createdAt stay fixed
+  //   without trusting a device to copy them (a re-create is authored by whoever sends it);
+  // - two coaches moving or editing one note offline merge per field (a re-create each would
+  //   make two notes; a delete would win over the other coach's edit and lose it);
+  // - refs are checked on every change as on a create (settle.ts: live, same team).
+  // What a move needs beyond last-writer-wins: the old skater must lose the note (pull: evictions
+  // from `formerOwnersColumn`), and its acknowledgement is cleared (it was the old skater's).
   observations: {
     serverTable: 'observations',
     pushBy: 'coach',
     // A coach changes their own notes; the head coach any (PRODUCT.md, "Look and feel").
     changeBy: 'author_or_head_coach',
     ownerField: 'skaterId',
+    formerOwnersColumn: 'former_skater_ids',
     deletes: 'tombstone',
     viewerRows: { where: 'skater_id = $viewer' },
     fields: {
-      sessionId: { column: 'session_id', server: 'uuid', device: 'text', rule: uuid('sessionId'), required: true, immutable: true, ref: 'sessions' },
-      skaterId: { column: 'skater_id', server: 'uuid', device: 'text', rule: uuid('skaterId'), required: true, immutable: true, ref: 'skaters' },
-      cueId: { column: 'cue_id', server: 'uuid', device: 'text', rule: uuid('cueId'), required: true, immutable: true, ref: 'cues' },
+      sessionId: { column: 'session_id', server: 'uuid', device: 'text', rule: uuid('sessionId'), required: true, ref: 'sessions' },
+      skaterId: { column: 'skater_id', server: 'uuid', device: 'text', rule: uuid('skaterId'), required: true, ref: 'skaters' },
+      cueId: { column: 'cue_id', server: 'uuid', device: 'text', rule: uuid('cueId'), required: true, ref: 'cues' },
       mark: { column: 'mark', server: 'text', device: 'text', rule: markSchema, required: true },
       note: {
         column: 'note', server: 'text', device: 'text', rule: noteSchema, initial: '',
@@ -176,6 +194,9 @@ export const syncTables: Record<SyncTableName, SyncTable> = {
   sessions: {
     serverTable: 'sessions',
     pushBy: 'coach',
+    // Deleted only by a tidy-up merge (its notes moved to the other session first); the device
+    // hides the row while the delete waits, so a pull cannot bring the merged session back.
+    deletes: 'tombstone',
     viewerRows: 'team',
     fields: {
       day: { column: 'day', server: 'text', device: 'text', rule: daySchema, required: true, immutable: true },

@@ -7,7 +7,7 @@ import { openExpoDriver } from './expo-driver';
 import type { SqlDriver } from './driver';
 
 export { DeviceStore, StoreError, localDay, sessionIdFor } from './store';
-export type { OutboxEntry, RecordInput } from './store';
+export type { NoteFix, OutboxEntry, RecordInput, TidySession } from './store';
 
 let opening: Promise<DeviceStore> | null = null;
 

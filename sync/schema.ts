@@ -119,6 +119,11 @@ export const deviceMigrations: readonly string[] = [
   );
   CREATE INDEX ix_targets_skater ON targets (team_id, skater_id, track, distance_m);
   `,
+  // 6: tidy-up merges sessions: a merged session stays hidden (deleted = 1) while its delete
+  // waits to be sent (shared/sync-tables.ts sessions `deletes: 'tombstone'`).
+  `
+  ALTER TABLE sessions ADD COLUMN deleted INTEGER NOT NULL DEFAULT 0;
+  `,
 ];
 
 export const DEVICE_SCHEMA_VERSION = deviceMigrations.length;

@@ -27,12 +27,14 @@ import * as cues from './tables/cues';
 import * as observations from './tables/observations';
 import * as runs from './tables/runs';
 import * as sessions from './tables/sessions';
+import * as tidy from './tables/tidy';
 import * as squad from './tables/squad';
 import * as targets from './tables/targets';
 
 export { StoreError, type OwnerFilter, type SyncedTable } from './store-context';
 export { toOutboxEntry, type OutboxEntry } from './outbox';
 export { localDay, sessionIdFor } from './tables/sessions';
+export type { NoteFix, TidySession } from './tables/tidy';
 export type { RecordInput } from './tables/observations';
 export type { CrossingInput, StartHeatInput } from './tables/runs';
 export type { SkaterDay, SkaterNote } from './skater-queries';
@@ -368,6 +370,23 @@ export class DeviceStore {
 
   countObservations(teamId: string): Promise<number> {
     return observations.countObservations(this.ctx, teamId);
+  }
+
+  // ---- tidy-up (the evening review) -------------------------------------------------------------
+
+  /** The team's sessions, newest day first, each with its live notes (sync/tables/tidy.ts). */
+  listTidySessions(teamId: string, days?: number): Promise<tidy.TidySession[]> {
+    return tidy.listTidySessions(this.ctx, teamId, days);
+  }
+
+  /** Fixes one note (mark, cue, text, shared switch) or moves it to another skater. */
+  fixNote(id: string, userId: string, fix: tidy.NoteFix, role?: Role): Promise<Observation> {
+    return tidy.fixNote(this.ctx, id, userId, fix, role);
+  }
+
+  /** Merges two sessions of one day: notes moved, focus cues united, the emptied one deleted. */
+  mergeSessions(teamId: string, userId: string, aId: string, bId: string, role?: Role): Promise<{ kept: string; removed: string; moved: number }> {
+    return tidy.mergeSessions(this.ctx, teamId, userId, aId, bId, role);
   }
 
   // ---- sessions -----------------------------------------------------------------------------

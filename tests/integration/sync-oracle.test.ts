@@ -10,8 +10,10 @@
  * - a delete wins over any edit, earlier or later, whatever their clocks;
  * - a delete of a record the server never saw leaves a tombstone: a later create stays deleted;
  * - an edit of a record that does not exist changes nothing;
- * - fixed fields (sessionId, skaterId, cueId, createdAt, createdBy; a session's day) never change
- *   after the create;
+ * - fixed fields (createdAt, createdBy; a session's day) never change after the create; a note's
+ *   session, skater and cue are edited like any other field (tidy-up moves and merges notes);
+ * - a value naming a session must name a live one (created, not deleted): otherwise the whole op
+ *   is refused and changes nothing (a note moved into a session merged away meanwhile);
  * - the server clamps a clock value more than 60 s ahead of its own clock to that limit, keeping
  *   the order the clamped values of one batch had among themselves, and after every value it
  *   clamped before for the team (shared/SYNC.md "Conflicts"; server/services/sync/clock.ts header).
@@ -50,11 +52,11 @@ const decode = (value: string): Clock => {
 type Table = 'observations' | 'sessions';
 
 const EDITABLE: Record<Table, string[]> = {
-  observations: ['mark', 'note', 'noteShared'],
+  observations: ['mark', 'note', 'noteShared', 'sessionId', 'skaterId', 'cueId'],
   sessions: ['rink', 'title', 'focusCueIds'],
 };
 const FIXED: Record<Table, string[]> = {
-  observations: ['sessionId', 'skaterId', 'cueId', 'createdAt', 'createdBy'],
+  observations: ['createdAt', 'createdBy'],
   sessions: ['day', 'createdAt', 'createdBy'],
 };
 
@@ -73,7 +75,18 @@ class Model {
   /** The last clamped value given out for the team (clamps continue after it). */
   private lastClamp: { wall: number; counter: number } | null = null;
 
-  constructor(private readonly serverTime: number) {}
+  constructor(
+    private readonly serverTime: number,
+    /** Sessions that exist for the whole file (never deleted): every other must be live in the model. */
+    private readonly standing: ReadonlySet<string> = new Set(),
+  ) {}
+
+  private liveSession(id: unknown): boolean {
+    if (typeof id !== 'string') return false;
+    if (this.standing.has(id)) return true;
+    const record = this.records.get(id);
+    return Boolean(record?.created && !record.deleted && record.table === 'sessions');
+  }
 
   /** The documented clamp for one batch: distinct values past the limit, in order, from the limit (or after the last clamp) on. */
   clamp(values: string[]): Map<string, string> {
@@ -98,6 +111,8 @@ class Model {
       const record = this.records.get(op.recordId);
       // PRODUCT.md: a coach changes their own notes, the head coach any (refused, nothing changes).
       if (table === 'observations' && !by.head && record?.created && record.fields.get('createdBy')?.value !== by.userId) continue;
+      // A note moved (or made) into a session that is not live is refused whole.
+      if (table === 'observations' && 'sessionId' in op.fields && !this.liveSession(op.fields.sessionId)) continue;
       if (op.kind === 'delete') {
         if (record) record.deleted = true;
         else this.records.set(op.recordId, { table, fields: new Map(), deleted: true, created: false });
@@ -149,7 +164,7 @@ const opArb: fc.Arbitrary<OpPlan> = fc.record({
   kind: fc.constantFrom<OpPlan['kind']>('create', 'create', 'edit', 'edit', 'edit', 'delete'),
   table: fc.constantFrom<Table>('observations', 'observations', 'sessions'),
   record: fc.nat(2),
-  fieldBits: fc.integer({ min: 1, max: 7 }),
+  fieldBits: fc.integer({ min: 1, max: 63 }),
   variant: fc.nat(5),
   clock: fc.oneof(
     { weight: 4, arbitrary: fc.record({ wall: fc.nat(WALLS.length - 1), counter: fc.nat(2) }) },
@@ -201,19 +216,25 @@ function makeOps(plan: BatchPlan, dev: Device, ids: Record<Table, string[]>, ser
     const recordId = ids[p.table][p.record];
     const stamp = (fields: Record<string, unknown>) => Object.fromEntries(Object.keys(fields).map((f) => [f, hlc]));
     if (p.kind === 'delete') {
-      // Only notes are deleted on a device; a session delete is not part of the contract's cases.
-      const id = ids.observations[p.record];
-      return { opId: uuidv7(), table: 'observations', recordId: id, kind: 'delete', fields: {}, hlc: { deleted: hlc } };
+      // Notes are deleted on a device, and a session merged into another (tidy-up).
+      return { opId: uuidv7(), table: p.table, recordId, kind: 'delete', fields: {}, hlc: { deleted: hlc } };
     }
     let fields: Record<string, unknown>;
     if (p.table === 'observations') {
-      const editable = { mark: p.variant % 2 ? 'good' : 'needs_work', note: `note ${n}`, noteShared: p.variant % 3 === 0 };
+      // Moves and merges: another session (one of this history's, maybe merged away), skater or cue.
+      const sessions = [team.sessionId, otherSession, ids.sessions[0], ids.sessions[1]];
+      const editable = {
+        mark: p.variant % 2 ? 'good' : 'needs_work',
+        note: `note ${n}`,
+        noteShared: p.variant % 3 === 0,
+        sessionId: sessions[(p.variant + n) % sessions.length],
+        skaterId: (p.variant + n) % 3 ? team.skaterA.id : team.skaterB.id,
+        cueId: team.cueIds[(p.variant + n) % 2],
+      };
       if (p.kind === 'create') {
         fields = {
-          sessionId: p.variant % 2 ? team.sessionId : otherSession,
-          skaterId: p.variant % 3 ? team.skaterA.id : team.skaterB.id,
-          cueId: team.cueIds[p.variant % 2],
           ...editable,
+          sessionId: p.variant % 2 ? team.sessionId : sessions[(p.variant + n) % sessions.length],
           createdAt: new Date(serverTime - 1000 * (1 + (p.variant % 3))).toISOString(),
           createdBy: userIdOf(dev.account),
         };
@@ -287,9 +308,9 @@ async function disagreements(model: Model, ids: string[]): Promise<string[]> {
 
 describe('merge oracle: the server against a model written from the contract', () => {
   it('random histories of creates, edits and deletes from three devices (clamped, far-ahead and equal clocks) end as the model says (fast-check, fixed seed)', async () => {
-    const model = new Model(serverTime);
+    const model = new Model(serverTime, new Set([team.sessionId, otherSession]));
     // Histories run one after another on the same team: the clamp carries over, as on the server.
-    const seen = { clamped: 0, ties: 0, tombstoneFirst: 0, histories: 0 };
+    const seen = { clamped: 0, ties: 0, tombstoneFirst: 0, histories: 0, moves: 0, movesRefused: 0, sessionDeletes: 0 };
     await fc.assert(
       fc.asyncProperty(historyArb, async (history) => {
         seen.histories += 1;
@@ -303,9 +324,17 @@ describe('merge oracle: the server against a model written from the contract', (
           seen.clamped += ops.flatMap((op) => Object.values(op.hlc)).filter((v) => decode(v).wall > limit).length;
           seen.ties += plan.ops.filter((p) => p.clock === 'same').length;
           for (const op of ops) if (op.kind === 'delete' && !model.records.has(op.recordId)) seen.tombstoneFirst += 1;
+          for (const op of ops) if (op.kind === 'delete' && op.table === 'sessions') seen.sessionDeletes += 1;
           const res = await push(server.app, { clientId: dev.clientId, clock: undefined as never, account: dev.account }, team.teamId, ops);
           expect(res.status).toBe(200);
-          expect((res.body as PushReply).results.map((r) => r.opId)).toEqual(ops.map((op) => op.opId));
+          const results = (res.body as PushReply).results;
+          expect(results.map((r) => r.opId)).toEqual(ops.map((op) => op.opId));
+          for (const [i, op] of ops.entries()) {
+            if (op.kind !== 'upsert' || op.table !== 'observations' || 'createdAt' in op.fields) continue;
+            if (!['sessionId', 'skaterId', 'cueId'].some((f) => f in op.fields)) continue;
+            if (results[i].status === 'applied') seen.moves += 1;
+            else if (results[i].message?.includes('no such session')) seen.movesRefused += 1;
+          }
           model.apply(ops, { userId: userIdOf(dev.account), head: dev.account === team.head });
         }
         expect(await disagreements(model, [...ids.observations, ...ids.sessions])).toEqual([]);
@@ -316,5 +345,8 @@ describe('merge oracle: the server against a model written from the contract', (
     expect(seen.clamped).toBeGreaterThan(20);
     expect(seen.ties).toBeGreaterThan(10);
     expect(seen.tombstoneFirst).toBeGreaterThan(3);
+    expect(seen.moves).toBeGreaterThan(20);
+    expect(seen.movesRefused).toBeGreaterThan(3);
+    expect(seen.sessionDeletes).toBeGreaterThan(10);
   }, 120_000);
 });

@@ -23,7 +23,8 @@ export function loadSql(table: SyncTableName): string {
   const columns = fieldsOf(table)
     .filter(([, f]) => f.rule)
     .map(([, f]) => f.column);
-  return `SELECT id, ${columns.join(', ')}, field_hlc, deleted_at, deleted_hlc
+  const former = tableSpec(table).formerOwnersColumn;
+  return `SELECT id, ${columns.join(', ')}, ${former ? `${former} AS former_owners, ` : ''}field_hlc, deleted_at, deleted_hlc
             FROM ${tableSpec(table).serverTable} WHERE team_id = $1 AND id = ANY($2::uuid[])`;
 }
 
@@ -44,6 +45,7 @@ async function loadRecords(runner: QueryRunner, teamId: string, table: SyncTable
       fieldHlc: r.field_hlc as Record<string, string>,
       deletedAt: iso(r.deleted_at as Date | null),
       deletedHlc: r.deleted_hlc as string | null,
+      ...(tableSpec(table).formerOwnersColumn ? { formerOwners: (r.former_owners as string[] | null) ?? [] } : {}),
     });
   }
 }

@@ -16,7 +16,9 @@
  *   Pull.4  `remaining` counts what is left after this page with the same filter, in the same
  *           snapshot (REPEATABLE READ, read only) as the page itself; a short page leaves 0.
  *
- * Evictions: a skater or guardian sees only their skater's group. When their skater's profile
+ * Evictions: a note moved to another skater (tidy-up) is pulled by the skaters it belonged to
+ * before (observations.former_skater_ids) as an eviction, and by its new skater as a change.
+ * A skater or guardian sees only their skater's group. When their skater's profile
  * comes in a page (it changed: moved to another group, say), the page also carries the group they
  * are in now and evicts every other group from their device. A note made private arrives as a
  * change with its text blanked (the mark stays the skater's to see); a removed member gets 404.
@@ -43,6 +45,11 @@ interface Source {
   fields: (row: Row) => Record<string, unknown>;
   /** Extra condition for a skater or guardian viewer ($4 is their skater id). */
   ownOnly?: string;
+  /**
+   * For a viewer of a table whose records move between skaters (`formerOwnersColumn`): the SQL
+   * telling a row the viewer holds now from one that left them (pulled as an eviction).
+   */
+  ownedNow?: string;
 }
 
 /** One source per synced table, derived from its description in shared/sync-tables.ts. */
@@ -57,12 +64,16 @@ function sourceOf(table: SyncTableName): Source {
         return `${f.server === 'timestamptz' ? ts(sql) : sql} AS ${alias(name)}`;
       })
       .join(', ');
+  const own = spec.viewerRows === 'team' ? undefined : spec.viewerRows.where.replace(/\$viewer/g, '$4');
+  const former = spec.formerOwnersColumn;
   return {
     table,
     from: spec.serverTable,
     columns,
     fields: (row) => Object.fromEntries(fields.map(([name]) => [name, row[alias(name)]])),
-    ownOnly: spec.viewerRows === 'team' ? undefined : spec.viewerRows.where.replace(/\$viewer/g, '$4'),
+    // A record that moved away from the viewer's skater still reaches them (as an eviction).
+    ownOnly: own && former ? `(${own} OR ${former} @> jsonb_build_array($4::text))` : own,
+    ownedNow: own && former ? own : undefined,
   };
 }
 
@@ -77,7 +88,7 @@ function where(source: Source, coach: boolean) {
 /** One keyset read per table, each at most `limit` rows; readPull merges them and cuts to `limit`. */
 function pageSql(coach: boolean) {
   return sources.map(
-    (s) => `SELECT id, server_seq, deleted_at IS NOT NULL AS deleted, ${s.columns(coach)}
+    (s) => `SELECT id, server_seq, deleted_at IS NOT NULL AS deleted, ${!coach && s.ownedNow ? `NOT (${s.ownedNow}) AS moved_away, ` : ''}${s.columns(coach)}
               FROM ${s.from} WHERE ${where(s, coach)} ORDER BY server_seq LIMIT $3`,
   );
 }
@@ -93,7 +104,7 @@ const skaterSql = { page: pageSql(false), remaining: remainingSql(false) };
 
 interface PageRow {
   source: Source;
-  row: Row & { id: string; deleted: boolean };
+  row: Row & { id: string; deleted: boolean; moved_away?: boolean };
   serverSeq: number;
 }
 
@@ -165,7 +176,9 @@ export async function readPull(
       serverTime: new Date(serverNow()).toISOString(),
     };
     for (const { source, row, serverSeq } of page) {
-      if (row.deleted) reply.tombstones.push({ table: source.table, id: row.id, serverSeq });
+      // Moved to another skater (tidy-up): it leaves this viewer's device, whatever else changed.
+      if (row.moved_away === true) reply.evictions.push({ table: source.table, id: row.id });
+      else if (row.deleted) reply.tombstones.push({ table: source.table, id: row.id, serverSeq });
       else reply.changes.push({ table: source.table, id: row.id, serverSeq, fields: source.fields(row) });
     }
     if (moved) {

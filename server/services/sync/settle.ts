@@ -42,6 +42,11 @@ export interface RecordState {
   deletedHlc: string | null;
   /** Deleted before the server ever had it: kept in sync_tombstones, not in the table. */
   ghost: boolean;
+  /**
+   * The skaters the record belonged to before (the table's `formerOwnersColumn`, server only):
+   * their pulls get it as an eviction. Empty for tables without one.
+   */
+  formerOwners?: string[];
   dirty: boolean;
 }
 
@@ -281,6 +286,7 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
   }
 
   // Newest clock wins, field by field (encoded HLCs compare as strings).
+  const ownerBefore = spec.ownerField ? record.values[spec.ownerField] : undefined;
   for (const field of Object.keys(values)) {
     if (fieldSpec(op.table, field)!.immutable) continue;
     const incoming = op.hlc[field];
@@ -289,8 +295,29 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
     record.fieldHlc = { ...record.fieldHlc, [field]: incoming };
     record.values = { ...record.values, [field]: values[field] };
   }
+  if (spec.ownerField && spec.formerOwnersColumn && record.values[spec.ownerField] !== ownerBefore) moveOwner(op, record, ownerBefore);
   // Restamped even when an older clock lost every field: the row then comes down again in the
   // sender's next pull, and the device replaces its losing local value with the winner.
   record.dirty = true;
   return applied(op.opId);
+}
+
+/**
+ * The record now belongs to another skater (a note moved in the evening's tidy-up): the one it
+ * belonged to is remembered, so their next pull evicts it (pull.ts), and the fields only the
+ * skater writes are cleared (an acknowledgement was the old skater's), with the move's clock so a
+ * later acknowledgement by the new skater still wins.
+ */
+function moveOwner(op: Op, record: RecordState, ownerBefore: unknown): void {
+  const spec = tableSpec(op.table);
+  if (typeof ownerBefore === 'string' && !(record.formerOwners ?? []).includes(ownerBefore)) {
+    record.formerOwners = [...(record.formerOwners ?? []), ownerBefore];
+  }
+  const moveHlc = op.hlc[spec.ownerField!];
+  for (const [field, f] of Object.entries(spec.fields)) {
+    if (f.writer !== 'own_skater') continue;
+    const current = own(record.fieldHlc, field) ? record.fieldHlc[field] : undefined;
+    record.values = { ...record.values, [field]: f.initial ?? null };
+    record.fieldHlc = { ...record.fieldHlc, [field]: current !== undefined && current > moveHlc ? current : moveHlc };
+  }
 }

@@ -29,10 +29,13 @@ const writable = (table: SyncTableName) => fieldsOf(table).filter(([, f]) => f.r
 /** The bulk upsert of one table: $1 the team, then one array per column. */
 export function upsertSql(table: SyncTableName): string {
   const fields = writable(table);
-  const columns = ['id', ...fields.map(([, f]) => f.column), 'field_hlc', 'server_seq', 'deleted_at', 'deleted_hlc'];
-  const types = ['uuid', ...fields.map(([, f]) => f.server), 'jsonb', 'bigint', 'timestamptz', 'text'];
+  // The skaters a record belonged to before (server only: it decides evictions on pull).
+  const former = tableSpec(table).formerOwnersColumn;
+  const columns = ['id', ...fields.map(([, f]) => f.column), 'field_hlc', 'server_seq', 'deleted_at', 'deleted_hlc', ...(former ? [former] : [])];
+  const types = ['uuid', ...fields.map(([, f]) => f.server), 'jsonb', 'bigint', 'timestamptz', 'text', ...(former ? ['jsonb'] : [])];
   const updates = [
     ...fields.filter(([, f]) => !f.immutable).map(([, f]) => f.column),
+    ...(former ? [former] : []),
     'field_hlc',
     'server_seq',
     'deleted_at',
@@ -60,6 +63,7 @@ export function upsertParams(table: SyncTableName, teamId: string, chunk: readon
     column((s) => s.serverSeq),
     column((s) => s.record.deletedAt),
     column((s) => s.record.deletedHlc),
+    ...(tableSpec(table).formerOwnersColumn ? [column((s) => JSON.stringify(s.record.formerOwners ?? []))] : []),
   ];
 }
 

@@ -1,0 +1,177 @@
+/**
+ * Tidy-up (the evening review): the sessions the device holds, day by day, with their notes, and
+ * the changes a coach makes to them after the ice: a note's mark, cue, text and shared switch, a
+ * note moved to another skater, and two sessions of one day merged into one. Every change is a
+ * row write plus its outbox entry in ONE device transaction (a refusal half way leaves nothing
+ * written), and goes to the server like the board's own edits.
+ *
+ * A note keeps its id when it moves (shared/sync-tables.ts, observations): session, skater and cue
+ * are edited like mark and note, so the author and createdAt never change, and the server evicts
+ * a moved note from the old skater's device.
+ */
+import { markSchema, noteSchema, type BoardSession, type Mark, type Observation, type Role } from '../../shared/schemas';
+import { mayChangeNote } from '../../shared/authors';
+import { fieldSpec } from '../../shared/sync-tables';
+import type { SqlValue } from '../driver';
+import { decodeRow, selectColumns } from '../fields';
+import { queueEdit } from '../outbox';
+import { StoreError, validate, type StoreContext } from '../store-context';
+import { ensureSessionQueued, sessionIdFor } from './sessions';
+
+/** What a tidy-up may change on one note. */
+export interface NoteFix {
+  mark?: Mark;
+  cueId?: string;
+  skaterId?: string;
+  note?: string;
+  noteShared?: boolean;
+}
+
+export interface TidySession extends BoardSession {
+  /** The session the board writes into on that day (its id is derived from team and day). */
+  boardSession: boolean;
+  notes: Observation[];
+}
+
+/** A session may pin at most this many focus cues (shared/sync-tables.ts, sessions.focusCueIds). */
+export const MAX_FOCUS_CUES = 6;
+
+const OBS_SELECT = `SELECT id, team_id, ${selectColumns('observations')} FROM observations`;
+const SESSION_SELECT = `SELECT id, team_id, ${selectColumns('sessions')} FROM sessions`;
+
+/**
+ * The team's sessions, newest day first (the most recently made first within a day), each with
+ * its live notes, newest first. `days` bounds how many days come back (the most recent ones).
+ */
+export async function listTidySessions(ctx: StoreContext, teamId: string, days = 60): Promise<TidySession[]> {
+  const sessionRows = await ctx.db.all<Record<string, SqlValue>>(
+    `${SESSION_SELECT} WHERE team_id = ? AND deleted = 0
+       AND day IN (SELECT DISTINCT day FROM sessions WHERE team_id = ? AND deleted = 0 ORDER BY day DESC LIMIT ?)
+     ORDER BY day DESC, created_at DESC, id`,
+    [teamId, teamId, days],
+  );
+  if (sessionRows.length === 0) return [];
+  const sessions = sessionRows.map((row) => decodeRow<BoardSession>('sessions', row));
+  const noteRows = await ctx.db.all<Record<string, SqlValue>>(
+    `${OBS_SELECT} WHERE deleted = 0 AND session_id IN (SELECT value FROM json_each(?)) ORDER BY created_at DESC, id DESC`,
+    [JSON.stringify(sessions.map((s) => s.id))],
+  );
+  const bySession = new Map<string, Observation[]>(sessions.map((s) => [s.id, []]));
+  for (const row of noteRows) {
+    const note = decodeRow<Observation>('observations', row);
+    bySession.get(note.sessionId)?.push(note);
+  }
+  return sessions.map((s) => ({ ...s, boardSession: s.id === sessionIdFor(teamId, s.day), notes: bySession.get(s.id) ?? [] }));
+}
+
+async function liveNote(ctx: StoreContext, id: string): Promise<Observation> {
+  const [row] = await ctx.db.all<Record<string, SqlValue>>(`${OBS_SELECT} WHERE id = ? AND deleted = 0`, [id]);
+  if (!row) throw new StoreError('That note no longer exists');
+  return decodeRow<Observation>('observations', row);
+}
+
+async function liveSession(ctx: StoreContext, id: string): Promise<BoardSession | null> {
+  const [row] = await ctx.db.all<Record<string, SqlValue>>(`${SESSION_SELECT} WHERE id = ? AND deleted = 0`, [id]);
+  return row ? decodeRow<BoardSession>('sessions', row) : null;
+}
+
+const uuidRule = (field: 'cueId' | 'skaterId' | 'sessionId') => fieldSpec('observations', field)!.rule!;
+
+/**
+ * Fixes one note: mark, cue, text, shared switch, or the skater it is about. The new skater and
+ * cue must be held on this device for the note's team (a skater of another team is refused, like
+ * the server refuses it); moving to another skater clears the old skater's acknowledgement.
+ */
+export async function fixNote(ctx: StoreContext, id: string, userId: string, fix: NoteFix, role?: Role): Promise<Observation> {
+  const changes: NoteFix = {};
+  if (fix.mark !== undefined) changes.mark = validate<Mark>(markSchema, fix.mark);
+  if (fix.note !== undefined) changes.note = validate<string>(noteSchema, fix.note);
+  if (fix.noteShared !== undefined) {
+    if (typeof fix.noteShared !== 'boolean') throw new StoreError('noteShared must be true or false');
+    changes.noteShared = fix.noteShared;
+  }
+  if (fix.cueId !== undefined) changes.cueId = validate<string>(uuidRule('cueId'), fix.cueId);
+  if (fix.skaterId !== undefined) changes.skaterId = validate<string>(uuidRule('skaterId'), fix.skaterId);
+  return ctx.tx(async () => {
+    const row = await liveNote(ctx, id);
+    if (!mayChangeNote(row, userId, role)) throw new StoreError('Only the coach who wrote this note or the head coach may change it');
+    if (changes.cueId !== undefined && changes.cueId !== row.cueId) {
+      const [cue] = await ctx.db.all<{ archived: number }>(`SELECT archived FROM cues WHERE id = ? AND team_id = ?`, [changes.cueId, row.teamId]);
+      if (!cue) throw new StoreError('That cue is not in this team\'s library');
+    }
+    if (changes.skaterId !== undefined && changes.skaterId !== row.skaterId) {
+      const [skater] = await ctx.db.all<{ id: string }>(`SELECT id FROM skaters WHERE id = ? AND team_id = ?`, [changes.skaterId, row.teamId]);
+      if (!skater) throw new StoreError('That skater is not in this team');
+    }
+    const fields: Record<string, unknown> = {};
+    for (const field of ['mark', 'cueId', 'skaterId', 'note', 'noteShared'] as const) {
+      if (changes[field] !== undefined && changes[field] !== row[field]) fields[field] = changes[field];
+    }
+    if (Object.keys(fields).length === 0) return row;
+    await queueEdit(ctx, {
+      teamId: row.teamId, userId, table: 'observations', recordId: id, fields,
+      previous: Object.fromEntries(Object.keys(fields).map((f) => [f, row[f as keyof Observation]])),
+    });
+    // The old skater's "got it" is not the new skater's: the server clears it too (settle.ts).
+    if (fields.skaterId !== undefined) await ctx.db.run(`UPDATE observations SET acknowledged_at = NULL WHERE id = ?`, [id]);
+    return liveNote(ctx, id);
+  });
+}
+
+/**
+ * Merges two sessions of the same day into one: every note of the one ends up in the other, the
+ * focus cues are united (at most six; the kept session's own first), and the emptied session is
+ * deleted. Which one stays: the board's session for that day (every device writes there), else
+ * the one made first. A plain coach may merge only when every moving note is theirs (the head
+ * coach any); a session merged into itself, or two of different days, is refused. One device
+ * transaction: all of it or nothing.
+ */
+export function mergeSessions(
+  ctx: StoreContext,
+  teamId: string,
+  userId: string,
+  aId: string,
+  bId: string,
+  role?: Role,
+): Promise<{ kept: string; removed: string; moved: number }> {
+  if (aId === bId) return Promise.reject(new StoreError('A session cannot be merged into itself'));
+  return ctx.tx(async () => {
+    const a = await liveSession(ctx, aId);
+    const b = await liveSession(ctx, bId);
+    if (!a || !b || a.teamId !== teamId || b.teamId !== teamId) throw new StoreError('That session no longer exists');
+    if (a.day !== b.day) throw new StoreError('Only two sessions of the same day can be merged');
+    const board = sessionIdFor(teamId, a.day);
+    const keepA = a.id === board || (b.id !== board && (a.createdAt < b.createdAt || (a.createdAt === b.createdAt && a.id < b.id)));
+    const [kept, removed] = keepA ? [a, b] : [b, a];
+    const moving = (
+      await ctx.db.all<Record<string, SqlValue>>(`${OBS_SELECT} WHERE session_id = ? AND deleted = 0 ORDER BY created_at, id`, [removed.id])
+    ).map((row) => decodeRow<Observation>('observations', row));
+    const others = moving.filter((note) => !mayChangeNote(note, userId, role));
+    if (others.length > 0) {
+      throw new StoreError(`Only the head coach may merge these sessions: ${others.length} of the notes were written by another coach`);
+    }
+    // The kept session must reach the server before the notes that move into it.
+    await ensureSessionQueued(ctx, kept, userId);
+    ctx.sessionsQueued.add(kept.id);
+    for (const note of moving) {
+      await queueEdit(ctx, { teamId, userId, table: 'observations', recordId: note.id, fields: { sessionId: kept.id }, previous: { sessionId: note.sessionId } });
+    }
+    const focus = [...new Set([...kept.focusCueIds, ...removed.focusCueIds])].slice(0, MAX_FOCUS_CUES);
+    if (JSON.stringify(focus) !== JSON.stringify(kept.focusCueIds)) {
+      await queueEdit(ctx, { teamId, userId, table: 'sessions', recordId: kept.id, fields: { focusCueIds: focus }, previous: { focusCueIds: kept.focusCueIds } });
+    }
+    const [{ sent }] = await ctx.db.all<{ sent: number }>(
+      `SELECT (SELECT synced FROM sessions WHERE id = ?) + (SELECT count(*) FROM outbox WHERE tbl = 'sessions' AND record_id = ?) AS sent`,
+      [removed.id, removed.id],
+    );
+    if (sent === 0) {
+      // Never left this device and nothing queued: it goes without a trace.
+      await ctx.db.run(`DELETE FROM sessions WHERE id = ?`, [removed.id]);
+    } else {
+      await ctx.db.run(`UPDATE sessions SET deleted = 1 WHERE id = ?`, [removed.id]);
+      await ctx.enqueue({ teamId, userId, table: 'sessions', recordId: removed.id, kind: 'delete', fields: {}, hlc: ctx.tick() });
+    }
+    ctx.sessionsQueued.delete(removed.id);
+    return { kept: kept.id, removed: removed.id, moved: moving.length };
+  });
+}
