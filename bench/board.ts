@@ -11,7 +11,8 @@ import { chromium, type Page } from 'playwright-core';
 import { execSync } from 'node:child_process';
 import { writeFileSync } from 'node:fs';
 
-const BASE = process.env.BENCH_BASE_URL ?? 'http://127.0.0.1:8434';
+import { api, BASE, quantile } from './support';
+
 const ROWS = Number(process.env.BENCH_ROWS ?? 50_000);
 const TAPS = Number(process.env.BENCH_TAPS ?? 200);
 const PASSES = [
@@ -19,22 +20,8 @@ const PASSES = [
   { label: 'quick-coach pass', gapMs: Number(process.env.BENCH_COACH_GAP_MS ?? 400) },
 ];
 
-const quantile = (values: number[], q: number) => {
-  const sorted = [...values].sort((a, b) => a - b);
-  return sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))];
-};
 const fmt = (values: number[]) =>
   `p50 ${quantile(values, 0.5).toFixed(1)} ms, p95 ${quantile(values, 0.95).toFixed(1)} ms, max ${Math.max(...values).toFixed(1)} ms`;
-
-async function api<T>(path: string, body?: unknown, token?: string): Promise<T> {
-  const response = await fetch(`${BASE}${path}`, {
-    method: body ? 'POST' : 'GET',
-    headers: { 'content-type': 'application/json', origin: BASE, ...(token ? { authorization: `Bearer ${token}` } : {}) },
-    body: body ? JSON.stringify(body) : undefined,
-  });
-  if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
-  return response.json() as Promise<T>;
-}
 
 async function fillDevice(page: Page, teamId: string, userId: string, skaterIds: string[], cueIds: string[]) {
   return page.evaluate(

@@ -20,8 +20,8 @@ import { chromium, type Page } from 'playwright-core';
 import { execSync } from 'node:child_process';
 
 import { formatRaceTime, lapsFromCrossings } from '../shared/timing';
+import { api, BASE, quantile } from './support';
 
-const BASE = process.env.BENCH_BASE_URL ?? 'http://127.0.0.1:8434';
 /** Laps timed per lane (each lap is one tap on each lane, 0.3 s apart). */
 const LAPS = Number(process.env.BENCH_CLOCK_LAPS ?? 30);
 const PAIR_GAP_MS = Number(process.env.BENCH_CLOCK_PAIR_GAP_MS ?? 300);
@@ -32,25 +32,11 @@ const OFFSET_MS = 300;
 /** touch (default) or mouse. */
 const INPUT = process.env.BENCH_CLOCK_INPUT === 'mouse' ? 'mouse' : 'touch';
 
-const quantile = (values: number[], q: number) => {
-  const sorted = [...values].sort((a, b) => a - b);
-  return sorted[Math.min(sorted.length - 1, Math.floor(q * sorted.length))];
-};
 const fmt = (values: number[], digits = 1) =>
   values.length === 0
     ? 'n 0 (nothing measured)'
     : `n ${values.length}, p50 ${quantile(values, 0.5).toFixed(digits)} ms, p95 ${quantile(values, 0.95).toFixed(digits)} ms, max ${Math.max(...values).toFixed(digits)} ms`;
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, Math.max(0, ms)));
-
-async function api<T>(path: string, body?: unknown, token?: string): Promise<T> {
-  const response = await fetch(`${BASE}${path}`, {
-    method: body ? 'POST' : 'GET',
-    headers: { 'content-type': 'application/json', origin: BASE, ...(token ? { authorization: `Bearer ${token}` } : {}) },
-    body: body ? JSON.stringify(body) : undefined,
-  });
-  if (!response.ok) throw new Error(`${path}: ${response.status} ${await response.text()}`);
-  return response.json() as Promise<T>;
-}
 
 /** A real touch (or mouse press) at the middle of the element: the browser stamps the event. */
 async function press(page: Page, testId: string) {

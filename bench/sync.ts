@@ -25,8 +25,8 @@ import { v7 as uuidv7 } from 'uuid';
 import { HybridClock } from '../shared/hlc';
 import { SYNC_PULL_MAX_LIMIT, SYNC_PUSH_MAX_OPS, type Op, type PullReply, type PushReply } from '../shared/schemas/sync';
 import { upsertSql } from '../server/services/sync/write';
+import { api, BASE } from './support';
 
-const BASE = process.env.BENCH_BASE_URL ?? 'http://127.0.0.1:8434';
 const DATABASE_URL = process.env.DATABASE_URL;
 const ROWS = Number(process.env.BENCH_SYNC_ROWS ?? 50_000);
 const RUNS = Number(process.env.BENCH_SYNC_RUNS ?? 3);
@@ -78,22 +78,8 @@ const int = (n: number) => Math.round(n).toLocaleString('en-US');
 
 let signUps = 0;
 
-async function api<T>(path: string, init: { body?: unknown; token?: string; method?: string } = {}): Promise<T> {
-  const response = await fetch(`${BASE}${path}`, {
-    method: init.method ?? (init.body === undefined ? 'GET' : 'POST'),
-    headers: {
-      'content-type': 'application/json',
-      origin: BASE,
-      ...(init.token ? { authorization: `Bearer ${init.token}` } : {}),
-    },
-    body: init.body === undefined ? undefined : JSON.stringify(init.body),
-  });
-  if (!response.ok) throw new Error(`${init.method ?? ''} ${path}: ${response.status} ${await response.text()}`);
-  return response.json() as Promise<T>;
-}
-
 async function push(team: Team, ops: Op[]): Promise<void> {
-  const reply = await api<PushReply>('/api/sync/push', { body: { clientId: team.clientId, teamId: team.teamId, ops }, token: team.token });
+  const reply = await api<PushReply>('/api/sync/push', { clientId: team.clientId, teamId: team.teamId, ops }, team.token);
   const notApplied = reply.results.filter((r) => r.status !== 'applied');
   if (reply.results.length !== ops.length || notApplied.length > 0) {
     throw new Error(`push to ${team.label}: ${notApplied.length} of ${ops.length} ops not applied, e.g. ${JSON.stringify(notApplied[0])}`);
@@ -105,21 +91,19 @@ async function newTeam(label: string): Promise<Team> {
   signUps += 1;
   const email = `bench.sync.${Date.now()}.${signUps}@bench.example`;
   const signedUp = await api<{ accessToken: string; user: { id: string }; memberships: { teamId: string }[] }>('/api/auth/sign-up', {
-    body: {
-      email,
-      password: 'bench-password-123',
-      displayName: `Bench Coach ${signUps}`,
-      teamName: `Sync Bench ${label}`,
-    },
+    email,
+    password: 'bench-password-123',
+    displayName: `Bench Coach ${signUps}`,
+    teamName: `Sync Bench ${label}`,
   });
   const token = signedUp.accessToken;
   const teamId = signedUp.memberships[0].teamId;
   const skaterIds: string[] = [];
   for (let i = 0; i < SKATERS; i += 1) {
-    const skater = await api<{ id: string }>(`/api/teams/${teamId}/skaters`, { body: { displayName: `Skater ${i + 1}` }, token });
+    const skater = await api<{ id: string }>(`/api/teams/${teamId}/skaters`, { displayName: `Skater ${i + 1}` }, token);
     skaterIds.push(skater.id);
   }
-  const cueIds = (await api<{ id: string }[]>(`/api/teams/${teamId}/cues`, { token })).map((c) => c.id);
+  const cueIds = (await api<{ id: string }[]>(`/api/teams/${teamId}/cues`, undefined, token)).map((c) => c.id);
   const clientId = uuidv7();
   const team: Team = {
     label, email, token, teamId, userId: signedUp.user.id, clientId, skaterIds, cueIds,
@@ -237,7 +221,7 @@ async function pullAll(team: Team, maxPages = Infinity): Promise<Measured> {
   let rows = 0;
   const started = performance.now();
   for (let page = 0; page < maxPages; page += 1) {
-    const reply = await api<PullReply>(`/api/sync/pull?teamId=${team.teamId}&cursor=${cursor}&limit=${PAGE}`, { token: team.token });
+    const reply = await api<PullReply>(`/api/sync/pull?teamId=${team.teamId}&cursor=${cursor}&limit=${PAGE}`, undefined, team.token);
     rows += reply.changes.length + reply.tombstones.length;
     cursor = reply.nextCursor;
     if (!reply.hasMore) break;
