@@ -1,8 +1,13 @@
 /**
  * The review's counts, each view one SQL statement that groups in PostgreSQL (no counting of
- * single notes here): ISO weeks come from to_char(created_at AT TIME ZONE zone, 'IYYY-"W"IW'),
- * the range is [Monday of `from`, Monday after `to`) at local midnight, so the index ranges of
- * ix_observations_review_skater / _team (team_id leading, live notes only) do the reading.
+ * single notes here). The matrices and the one-week grid sum observation_week_counts: the live
+ * notes counted per team, local Monday, skater and cue, kept exact by triggers on observations
+ * and recounted when the team's zone changes (migration 1764785000000-review-week-counts.ts). A
+ * week's Monday is date_trunc('week', created_at AT TIME ZONE zone), so its label
+ * to_char(monday, 'IYYY-"W"IW') is the note's own ISO week, and a range of weeks is a range of
+ * Mondays [Monday of `from`, Monday after `to`): a group's year is about 60,000 count rows instead
+ * of 500,000 notes each turned into a local week. A cell's notes are read from observations over
+ * ix_observations_review_skater, the range [Monday of `from`, Monday after `to`) at local midnight.
  * Deleted notes (tombstones, deleted_at set) never count; notes of a deleted cue are left out
  * with it (archived cues stay, flagged). Every statement is bounded by the caller's team; lists
  * travel as arrays (one parameter), never as one parameter per item.
@@ -18,12 +23,12 @@ const WEEK = `'IYYY-"W"IW'`;
 /** Local midnight of a day ($n::date) in the zone ($2) as an instant. */
 const localMidnight = (param: string) => `(${param}::date::timestamp AT TIME ZONE $2)`;
 
-/** Skaters of a group the review sums over: live (not retired, not deleted) ones; $3 is the group id. */
+/** Skaters of a group the review sums over: live (not retired, not deleted) ones; $2 is the group id. */
 function groupMembers(group: ReviewGroup): { sql: string; param: string | null } {
   const base = `SELECT s.id, s.display_name FROM skaters s WHERE s.team_id = $1 AND s.deleted_at IS NULL AND s.retired_at IS NULL`;
-  if (group === 'all') return { sql: `${base} AND $3::uuid IS NULL`, param: null };
-  if (group === 'none') return { sql: `${base} AND s.group_id IS NULL AND $3::uuid IS NULL`, param: null };
-  return { sql: `${base} AND s.group_id = $3::uuid`, param: group };
+  if (group === 'all') return { sql: `${base} AND $2::uuid IS NULL`, param: null };
+  if (group === 'none') return { sql: `${base} AND s.group_id IS NULL AND $2::uuid IS NULL`, param: null };
+  return { sql: `${base} AND s.group_id = $2::uuid`, param: group };
 }
 
 interface MatrixRow {
@@ -39,27 +44,27 @@ interface MatrixRow {
 }
 
 /**
- * $1 team, $2 zone, $3 skater id or group id, $4 first Monday, $5 Monday after the range,
- * $6 the phases in display order. `who` selects the notes' skaters.
+ * $1 team, $2 skater id or group id, $3 first Monday, $4 Monday after the range, $5 the phases in
+ * display order. `who` selects the counts' skaters. The counts are kept in the team's zone, which
+ * the statement needs no more.
  */
 const matrixSql = (who: string) => `
   WITH cells AS (
-    SELECT o.cue_id,
-           to_char(o.created_at AT TIME ZONE $2, ${WEEK}) AS week,
-           count(*) FILTER (WHERE o.mark = 'needs_work')::int AS needs_work,
-           count(*) FILTER (WHERE o.mark = 'good')::int AS good
-      FROM observations o
-     WHERE o.team_id = $1 AND o.deleted_at IS NULL
-       AND o.created_at >= ${localMidnight('$4')} AND o.created_at < ${localMidnight('$5')}
+    SELECT w.cue_id, w.week_start,
+           sum(w.needs_work)::int AS needs_work,
+           sum(w.good)::int AS good
+      FROM observation_week_counts w
+     WHERE w.team_id = $1 AND w.week_start >= $3::date AND w.week_start < $4::date
        AND ${who}
      GROUP BY 1, 2
+    HAVING sum(w.needs_work) + sum(w.good) > 0
   )
-  SELECT c.id AS cue_id, c.phase, c.label, c.archived, cells.week, cells.needs_work, cells.good,
+  SELECT c.id AS cue_id, c.phase, c.label, c.archived, to_char(cells.week_start, ${WEEK}) AS week, cells.needs_work, cells.good,
          (sum(cells.needs_work) OVER (PARTITION BY c.id))::int AS total_needs_work,
          (sum(cells.good) OVER (PARTITION BY c.id))::int AS total_good
     FROM cells
     JOIN cues c ON c.team_id = $1 AND c.id = cells.cue_id AND c.deleted_at IS NULL
-   ORDER BY array_position($6::text[], c.phase), c.sort_order, c.label, c.id, cells.week`;
+   ORDER BY array_position($5::text[], c.phase), c.sort_order, c.label, c.id, cells.week_start`;
 
 function toMatrix(rows: MatrixRow[], range: WeekRange, timeZone: string): ReviewMatrix {
   const out: ReviewRow[] = [];
@@ -86,9 +91,8 @@ function toMatrix(rows: MatrixRow[], range: WeekRange, timeZone: string): Review
 
 /** One skater's cues x weeks (the caller has checked the viewer may see this skater). */
 export async function skaterMatrix(dataSource: DataSource, teamId: string, timeZone: string, skaterId: string, range: WeekRange) {
-  const rows: MatrixRow[] = await dataSource.query(matrixSql(`o.skater_id = $3::uuid`), [
+  const rows: MatrixRow[] = await dataSource.query(matrixSql(`w.skater_id = $2::uuid`), [
     teamId,
-    timeZone,
     skaterId,
     range.startDay,
     range.endDay,
@@ -100,9 +104,8 @@ export async function skaterMatrix(dataSource: DataSource, teamId: string, timeZ
 /** The same matrix summed over a group's live skaters ('all': the team; 'none': skaters in no group). */
 export async function groupMatrix(dataSource: DataSource, teamId: string, timeZone: string, group: ReviewGroup, range: WeekRange) {
   const members = groupMembers(group);
-  const rows: MatrixRow[] = await dataSource.query(matrixSql(`o.skater_id IN (SELECT id FROM (${members.sql}) m)`), [
+  const rows: MatrixRow[] = await dataSource.query(matrixSql(`w.skater_id IN (SELECT id FROM (${members.sql}) m)`), [
     teamId,
-    timeZone,
     members.param,
     range.startDay,
     range.endDay,
@@ -129,21 +132,19 @@ export async function weekGrid(dataSource: DataSource, teamId: string, timeZone:
   const rows: WeekRow[] = await dataSource.query(
     `WITH members AS (${members.sql}),
      cells AS (
-       SELECT o.skater_id, o.cue_id,
-              count(*) FILTER (WHERE o.mark = 'needs_work')::int AS needs_work,
-              count(*) FILTER (WHERE o.mark = 'good')::int AS good
-         FROM observations o
-        WHERE o.team_id = $1 AND o.deleted_at IS NULL
-          AND o.created_at >= ${localMidnight('$4')} AND o.created_at < ${localMidnight('$5')}
-          AND o.skater_id IN (SELECT id FROM members)
+       SELECT w.skater_id, w.cue_id, sum(w.needs_work)::int AS needs_work, sum(w.good)::int AS good
+         FROM observation_week_counts w
+        WHERE w.team_id = $1 AND w.week_start >= $3::date AND w.week_start < $4::date
+          AND w.skater_id IN (SELECT id FROM members)
         GROUP BY 1, 2
+       HAVING sum(w.needs_work) + sum(w.good) > 0
      )
      SELECT m.id AS skater_id, m.display_name, c.id AS cue_id, c.phase, c.label, c.archived, c.sort_order,
             x.needs_work, x.good
        FROM members m
        LEFT JOIN (cells x JOIN cues c ON c.team_id = $1 AND c.id = x.cue_id AND c.deleted_at IS NULL) ON x.skater_id = m.id
       ORDER BY m.display_name COLLATE "und-x-icu", m.id`,
-    [teamId, timeZone, members.param, range.startDay, range.endDay],
+    [teamId, members.param, range.startDay, range.endDay],
   );
   const skaters: ReviewWeek['skaters'] = [];
   const cues = new Map<string, ReviewCue & { sortOrder: number }>();
