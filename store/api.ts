@@ -207,15 +207,8 @@ async function sendSignOut(options: RequestOptions): Promise<Response> {
   return response;
 }
 
-/** Calls the API and returns the parsed JSON body (undefined for 204). Throws ApiRequestError. */
-export async function apiRequest<T = unknown>(path: string, options: RequestOptions = {}): Promise<T> {
-  if (path === SIGN_OUT_PATH) {
-    const response = await sendSignOut(options);
-    const body = await readBody(response);
-    if (!response.ok) throw toError(response, body);
-    return body as T;
-  }
-
+/** Sends a request with the session's token, refreshing once on a 401 (see the module header). */
+async function authorizedResponse(path: string, options: RequestOptions): Promise<Response> {
   // An owed sign-out goes first. Above all before a sign-in: its answer replaces the refresh
   // cookie, and the sign-in named by the old one could then never be ended from here.
   if (pendingSignOut()) {
@@ -240,10 +233,36 @@ export async function apiRequest<T = unknown>(path: string, options: RequestOpti
       bridge.onSignedOut();
     }
   }
+  return response;
+}
 
+/** Calls the API and returns the parsed JSON body (undefined for 204). Throws ApiRequestError. */
+export async function apiRequest<T = unknown>(path: string, options: RequestOptions = {}): Promise<T> {
+  if (path === SIGN_OUT_PATH) {
+    const response = await sendSignOut(options);
+    const body = await readBody(response);
+    if (!response.ok) throw toError(response, body);
+    return body as T;
+  }
+  const response = await authorizedResponse(path, options);
   const body = await readBody(response);
   if (!response.ok) throw toError(response, body);
   return body as T;
+}
+
+/**
+ * Calls the API for a text file (a CSV export): the body as text with the response's headers,
+ * the same sign-in handling as apiRequest. An error answer is still JSON and throws ApiRequestError.
+ */
+export async function apiRequestText(path: string, options: RequestOptions = {}): Promise<{ text: string; headers: Headers }> {
+  const response = await authorizedResponse(path, options);
+  if (!response.ok) throw toError(response, await readBody(response));
+  try {
+    return { text: await response.text(), headers: response.headers };
+  } catch (cause) {
+    if (options.signal?.aborted) throw cause;
+    throw new ApiRequestError(0, 'network', NETWORK_MESSAGE);
+  }
 }
 
 /** apiRequest + a zod parse of the answer: the client trusts nothing it did not check. */
