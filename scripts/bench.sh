@@ -26,7 +26,7 @@ build_web
 )
 wait_http "http://127.0.0.1:$BENCH_PORT/api/health" "the bench server" "$DATA/bench-server.log"
 
-# BENCH_ONLY=sync|board|clock|convergence runs one step (default: all of them).
+# BENCH_ONLY=sync|board|clock|review|convergence runs one step (default: all of them).
 step() { [ -z "${BENCH_ONLY:-}" ] || [ "$BENCH_ONLY" = "$1" ]; }
 
 if step sync; then
@@ -42,6 +42,11 @@ fi
 if step clock; then
   log "clock: a pair timed with touch taps, lanes 0.3 s apart (stored crossing vs event time, tap to lap shown)"
   BENCH_BASE_URL="http://127.0.0.1:$BENCH_PORT" tsx bench/clock.ts
+fi
+
+if step review; then
+  log "review: 500,000 notes of 40 skaters over 53 ISO weeks; the group and skater matrices, one week, the CSV export, each beside raw SQL"
+  BENCH_BASE_URL="http://127.0.0.1:$BENCH_PORT" tsx bench/review.ts
 fi
 
 if step convergence; then

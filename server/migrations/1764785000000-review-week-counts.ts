@@ -146,6 +146,8 @@ export class ReviewWeekCounts1764785000000 implements MigrationInterface {
         FROM observations o JOIN teams t ON t.id = o.team_id
        WHERE o.deleted_at IS NULL
        GROUP BY 1, 2, 3, 4`);
+    // Statistics now, not when autovacuum gets to it: the review's plans depend on them.
+    await q.query(`ANALYZE observation_week_counts`);
   }
 
   public async down(q: QueryRunner): Promise<void> {

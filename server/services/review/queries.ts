@@ -49,7 +49,7 @@ interface MatrixRow {
  * the statement needs no more.
  */
 const matrixSql = (who: string) => `
-  WITH cells AS (
+  WITH cells AS MATERIALIZED (
     SELECT w.cue_id, w.week_start,
            sum(w.needs_work)::int AS needs_work,
            sum(w.good)::int AS good
@@ -131,18 +131,19 @@ export async function weekGrid(dataSource: DataSource, teamId: string, timeZone:
   const members = groupMembers(group);
   const rows: WeekRow[] = await dataSource.query(
     `WITH members AS (${members.sql}),
-     cells AS (
-       SELECT w.skater_id, w.cue_id, sum(w.needs_work)::int AS needs_work, sum(w.good)::int AS good
-         FROM observation_week_counts w
-        WHERE w.team_id = $1 AND w.week_start >= $3::date AND w.week_start < $4::date
-          AND w.skater_id IN (SELECT id FROM members)
-        GROUP BY 1, 2
-       HAVING sum(w.needs_work) + sum(w.good) > 0
+     cells AS MATERIALIZED (
+       SELECT x.skater_id, c.id AS cue_id, c.phase, c.label, c.archived, c.sort_order, x.needs_work, x.good
+         FROM (SELECT w.skater_id, w.cue_id, sum(w.needs_work)::int AS needs_work, sum(w.good)::int AS good
+                 FROM observation_week_counts w
+                WHERE w.team_id = $1 AND w.week_start >= $3::date AND w.week_start < $4::date
+                  AND w.skater_id IN (SELECT id FROM members)
+                GROUP BY 1, 2
+               HAVING sum(w.needs_work) + sum(w.good) > 0) x
+         JOIN cues c ON c.team_id = $1 AND c.id = x.cue_id AND c.deleted_at IS NULL
      )
-     SELECT m.id AS skater_id, m.display_name, c.id AS cue_id, c.phase, c.label, c.archived, c.sort_order,
-            x.needs_work, x.good
+     SELECT m.id AS skater_id, m.display_name, x.cue_id, x.phase, x.label, x.archived, x.sort_order, x.needs_work, x.good
        FROM members m
-       LEFT JOIN (cells x JOIN cues c ON c.team_id = $1 AND c.id = x.cue_id AND c.deleted_at IS NULL) ON x.skater_id = m.id
+       LEFT JOIN cells x ON x.skater_id = m.id
       ORDER BY m.display_name COLLATE "und-x-icu", m.id`,
     [teamId, members.param, range.startDay, range.endDay],
   );
