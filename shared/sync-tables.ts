@@ -114,6 +114,13 @@ export interface SyncTable {
    */
   deletes?: 'tombstone' | 'never';
   /**
+   * A delete is refused while live records of `table` still point at this one through `field`
+   * (a session still holding notes): nothing is deleted out from under them. A merge moves the
+   * notes first (earlier ops of the same or an earlier batch), then deletes the emptied session;
+   * a merge of a session into itself therefore never deletes it. The push loads those records.
+   */
+  keptWhileReferenced?: { table: SyncTableName; field: string };
+  /**
    * A check across fields, on the record as an upsert would leave it (its current values with the
    * op's on top, whatever the clocks later decide): the reason it is refused, or null. Runs on the
    * server per op (a validation rejection) and in the device store before anything is written.
@@ -197,6 +204,7 @@ export const syncTables: Record<SyncTableName, SyncTable> = {
     // Deleted only by a tidy-up merge (its notes moved to the other session first); the device
     // hides the row while the delete waits, so a pull cannot bring the merged session back.
     deletes: 'tombstone',
+    keptWhileReferenced: { table: 'observations', field: 'sessionId' },
     viewerRows: 'team',
     fields: {
       day: { column: 'day', server: 'text', device: 'text', rule: daySchema, required: true, immutable: true },

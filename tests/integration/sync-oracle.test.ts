@@ -12,6 +12,7 @@
  * - an edit of a record that does not exist changes nothing;
  * - fixed fields (createdAt, createdBy; a session's day) never change after the create; a note's
  *   session, skater and cue are edited like any other field (tidy-up moves and merges notes);
+ * - a session still holding live notes is not deleted (a merge moves them first);
  * - a value naming a session must name a live one (created, not deleted): otherwise the whole op
  *   is refused and changes nothing (a note moved into a session merged away meanwhile);
  * - the server clamps a clock value more than 60 s ahead of its own clock to that limit, keeping
@@ -81,6 +82,13 @@ class Model {
     private readonly standing: ReadonlySet<string> = new Set(),
   ) {}
 
+  private holdsNotes(sessionId: string): boolean {
+    for (const r of this.records.values()) {
+      if (r.table === 'observations' && r.created && !r.deleted && r.fields.get('sessionId')?.value === sessionId) return true;
+    }
+    return false;
+  }
+
   private liveSession(id: unknown): boolean {
     if (typeof id !== 'string') return false;
     if (this.standing.has(id)) return true;
@@ -114,6 +122,8 @@ class Model {
       // A note moved (or made) into a session that is not live is refused whole.
       if (table === 'observations' && 'sessionId' in op.fields && !this.liveSession(op.fields.sessionId)) continue;
       if (op.kind === 'delete') {
+        // A session still holding live notes is not deleted (the notes move first in a merge).
+        if (table === 'sessions' && this.holdsNotes(op.recordId)) continue;
         if (record) record.deleted = true;
         else this.records.set(op.recordId, { table, fields: new Map(), deleted: true, created: false });
         continue;
@@ -310,7 +320,7 @@ describe('merge oracle: the server against a model written from the contract', (
   it('random histories of creates, edits and deletes from three devices (clamped, far-ahead and equal clocks) end as the model says (fast-check, fixed seed)', async () => {
     const model = new Model(serverTime, new Set([team.sessionId, otherSession]));
     // Histories run one after another on the same team: the clamp carries over, as on the server.
-    const seen = { clamped: 0, ties: 0, tombstoneFirst: 0, histories: 0, moves: 0, movesRefused: 0, sessionDeletes: 0 };
+    const seen = { clamped: 0, ties: 0, tombstoneFirst: 0, histories: 0, moves: 0, movesRefused: 0, sessionDeletes: 0, deletesRefused: 0 };
     await fc.assert(
       fc.asyncProperty(historyArb, async (history) => {
         seen.histories += 1;
@@ -335,6 +345,7 @@ describe('merge oracle: the server against a model written from the contract', (
             if (results[i].status === 'applied') seen.moves += 1;
             else if (results[i].message?.includes('no such session')) seen.movesRefused += 1;
           }
+          seen.deletesRefused += results.filter((r) => r.message?.includes('still holds')).length;
           model.apply(ops, { userId: userIdOf(dev.account), head: dev.account === team.head });
         }
         expect(await disagreements(model, [...ids.observations, ...ids.sessions])).toEqual([]);
@@ -348,5 +359,6 @@ describe('merge oracle: the server against a model written from the contract', (
     expect(seen.moves).toBeGreaterThan(20);
     expect(seen.movesRefused).toBeGreaterThan(3);
     expect(seen.sessionDeletes).toBeGreaterThan(10);
+    expect(seen.deletesRefused).toBeGreaterThan(1);
   }, 120_000);
 });

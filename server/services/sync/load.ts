@@ -28,9 +28,21 @@ export function loadSql(table: SyncTableName): string {
             FROM ${tableSpec(table).serverTable} WHERE team_id = $1 AND id = ANY($2::uuid[])`;
 }
 
-/** Loads records of a pushable table by id into the batch state (tombstones included). */
-async function loadRecords(runner: QueryRunner, teamId: string, table: SyncTableName, wanted: Set<string>, state: BatchState): Promise<void> {
-  const found = await rows<Record<string, unknown> & { id: string }>(runner, loadSql(table), [teamId, [...wanted]]);
+/**
+ * Loads records of a pushable table into the batch state (tombstones included): by id, or, with
+ * `by`, the live records whose `by` column holds one of the ids (the notes of a session whose
+ * delete is asked: `keptWhileReferenced`). A record the batch already holds is left as it is.
+ */
+async function loadRecords(
+  runner: QueryRunner,
+  teamId: string,
+  table: SyncTableName,
+  wanted: Set<string>,
+  state: BatchState,
+  by?: string,
+): Promise<void> {
+  const sql = by ? loadSql(table).replace('AND id = ANY($2::uuid[])', `AND ${by} = ANY($2::uuid[]) AND deleted_at IS NULL`) : loadSql(table);
+  const found = await rows<Record<string, unknown> & { id: string }>(runner, sql, [teamId, [...wanted]]);
   for (const r of found) {
     const values: Record<string, unknown> = {};
     for (const [name, f] of fieldsOf(table)) {
@@ -38,6 +50,7 @@ async function loadRecords(runner: QueryRunner, teamId: string, table: SyncTable
       const raw = r[f.column];
       values[name] = f.server === 'timestamptz' ? iso(raw as Date | null) : raw;
     }
+    if (by && state.records.has(recordKey(table, r.id))) continue;
     state.records.set(recordKey(table, r.id), {
       ...emptyRecord(table, r.id),
       exists: true,
@@ -92,6 +105,16 @@ export async function loadBatchState(runner: QueryRunner, teamId: string, ops: r
     parents.get(parentTable)!.add(parentId);
   }
   for (const [table, wanted] of parents) await loadRecords(runner, teamId, table, wanted, state);
+
+  // A delete of a record others still point at is refused (a session holding notes): load those.
+  const kept = new Map<SyncTableName, { field: string; ids: Set<string> }>();
+  for (const op of ops) {
+    const rule = op.kind === 'delete' ? tableSpec(op.table).keptWhileReferenced : undefined;
+    if (!rule || !isUuid(op.recordId)) continue;
+    if (!kept.has(rule.table)) kept.set(rule.table, { field: rule.field, ids: new Set() });
+    kept.get(rule.table)!.ids.add(op.recordId);
+  }
+  for (const [table, { field, ids: wanted }] of kept) await loadRecords(runner, teamId, table, wanted, state, fieldSpec(table, field)!.column);
 
   // Deletes that arrived before the server ever had the record.
   const missing: string[] = [];

@@ -121,6 +121,15 @@ function authorityOf(op: Op, record: RecordState, state: BatchState): RecordStat
   return parent?.exists ? parent : null;
 }
 
+/** How many live records of the batch state point at `id` through `rule.field` (as the batch left them so far). */
+function referencing(state: BatchState, rule: { table: SyncTableName; field: string }, id: string): number {
+  let n = 0;
+  for (const record of state.records.values()) {
+    if (record.table === rule.table && record.exists && !record.deletedAt && record.values[rule.field] === id) n += 1;
+  }
+  return n;
+}
+
 function isLive(state: BatchState, table: SyncTableName, id: string): boolean {
   if (tableSpec(table).pushBy === 'none') return state.live.get(table)?.has(id) ?? false;
   const record = state.records.get(recordKey(table, id));
@@ -241,6 +250,14 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
   // Push.4: merge.
   if (op.kind === 'delete') {
     if (record.deletedAt) return applied(op.opId, 'Already deleted');
+    const held = spec.keptWhileReferenced ? referencing(state, spec.keptWhileReferenced, op.recordId) : 0;
+    if (held > 0) {
+      return rejected(
+        op.opId,
+        'validation',
+        `This ${singular(op.table)} still holds ${held} ${held === 1 ? singular(spec.keptWhileReferenced!.table) : spec.keptWhileReferenced!.table}: move them first (nothing was deleted)`,
+      );
+    }
     // Delete wins over any edit, whatever its clock: the record becomes a tombstone.
     record.deletedAt = new Date(context.now).toISOString();
     record.deletedHlc = op.hlc.deleted;
