@@ -213,6 +213,7 @@ describe('two runs side by side', () => {
     await shown('laps-compare-table');
     // A = R2 (20 Oct), B = R3 (8 Nov). Opener 24.90 - 25.10 = -0.20; lap 2 28.55 - 29.20 = -0.65;
     // finish 1:50.60 - 1:52.02 = -1.42.
+    expect(text('laps-compare-which')).toBe('A: Tue 20 Oct 11:00 \u00B7 B: Sun 8 Nov 23:30');
     expect(text('laps-compare-a-finish')).toBe('1:52.02');
     expect(text('laps-compare-b-finish')).toBe('1:50.60');
     expect(text('laps-compare-diff-0')).toBe('\u22120.20');

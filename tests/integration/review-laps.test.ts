@@ -11,7 +11,8 @@
  *                           for 4 splits, so partial: laps 24800 28200 56000, no finish, no best
  *   R5 Tue 2026-11-10 (W46) stopped "Fell in the curve"  25.50 54.80  laps 25500 29300
  *   R6 2026-09-15 finished 1:40.00, the run deleted: never counts
- *   and a 500 m (W45, 10.80 39.90) for the distance list; skater B one 1500 m (1:53.00).
+ *   and a 500 m (W45, 10.80 39.90) for the distance list, a 1000 m with two crossings at one
+ *   instant (no laps can be read); skater B one 1500 m (1:53.00).
  *
  * Bests over complete runs (R1-R3): finish 110600 (R3); opener 24900 (R3), lap 1 28500 (R3),
  * lap 2 28550 (R3), lap 3 28550 (R1: 28550 < R3's 28650). R4's 24800 opener and R4's finish
@@ -86,6 +87,10 @@ beforeAll(async () => {
   ids.r500 = (
     await pushRun(team, team.headDevice, { skaterId: A, startedAt: '2026-11-03T17:00:00.000Z', day: '2026-11-03', crossings: [10_800, 39_900], distanceM: 500 })
   ).runId;
+  // A 1000 m (splits 200, 600, 1000) with two crossings at one instant: no laps can be read.
+  ids.r1000 = (
+    await pushRun(team, dev, { skaterId: A, startedAt: '2026-09-20T16:00:00.000Z', day: '2026-09-20', crossings: [19_000, 19_000, 80_000], distanceM: 1000 })
+  ).runId;
   ids.b1 = (await pushRun(team, dev, { skaterId: team.skaterB.id, startedAt: '2026-10-13T16:00:00.000Z', day: '2026-10-13', crossings: [26_000, 55_000, 84_000, 113_000] })).runId;
   await pushOk(server.app, dev, team.teamId, [
     remove(dev, 'crossings', deletedCrossing),
@@ -147,6 +152,7 @@ describe("a skater's 1500 m", () => {
     expect(body.distances).toEqual([
       { distanceM: 1500, track: 'long', runs: 5, lastDay: '2026-11-10' },
       { distanceM: 500, track: 'long', runs: 1, lastDay: '2026-11-03' },
+      { distanceM: 1000, track: 'long', runs: 1, lastDay: '2026-09-20' },
     ]);
   });
 });
@@ -174,6 +180,12 @@ describe('weeks in the team zone', () => {
     expect(res.runs.map((r) => [r.lapsMs, r.finishMs, r.state])).toEqual([[[10_800, 29_100], 39_900, 'complete']]);
     expect(res.target).toBeNull();
     expect(res.bests.finish).toMatchObject({ ms: 39_900 });
+  });
+
+  it('flags a run with two crossings at one instant: no laps, no finish, no best', async () => {
+    const res = (await laps(team.head, team.skaterA.id, { ...RANGE, distanceM: '1000' }).expect(200)).body as LapTrend;
+    expect(res.runs.map((r) => [r.id, r.state, r.crossingsMs, r.lapsMs, r.finishMs])).toEqual([[ids.r1000, 'unordered', [19_000, 19_000, 80_000], [], null]]);
+    expect(res.bests).toEqual({ finish: null, laps: [null, null, null] });
   });
 
   it('says "nothing yet" for a distance without runs, and for a skater without any', async () => {

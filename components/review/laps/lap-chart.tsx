@@ -112,7 +112,8 @@ export const LapChart = memo(function LapChart(props: LapChartProps) {
           {targetMs !== null ? (
             <G>
               <Line x1={MARGIN.left} x2={MARGIN.left + plotW} y1={y(targetMs)} y2={y(targetMs)} stroke={TARGET} strokeWidth={2} strokeDasharray="8 5" />
-              <SvgText x={MARGIN.left + plotW} y={y(targetMs) - 6} fontSize={13} fontFamily={fonts.bold} fill={marks.needsWork.ink} textAnchor="end">
+              {/* At the left: the newest runs, where the eye goes, sit at the right. */}
+              <SvgText x={MARGIN.left + 6} y={y(targetMs) - 6} fontSize={13} fontFamily={fonts.bold} fill={marks.needsWork.ink} textAnchor="start">
                 {`Target ${formatRaceTime(targetMs)}`}
               </SvgText>
             </G>
@@ -127,7 +128,7 @@ export const LapChart = memo(function LapChart(props: LapChartProps) {
                 {p.best ? (
                   <>
                     <Circle cx={cx} cy={cy} r={10} stroke={colors.success} strokeWidth={2.5} fill="none" />
-                    <SvgText x={cx} y={cy - 15} fontSize={13} fontFamily={fonts.bold} fill={colors.success} textAnchor="middle">
+                    <SvgText x={cx} y={cy - 19} fontSize={13} fontFamily={fonts.bold} fill={colors.success} textAnchor="middle">
                       PB
                     </SvgText>
                   </>

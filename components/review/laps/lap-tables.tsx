@@ -140,21 +140,22 @@ export function LapCompare({
   const choices = (which: 'a' | 'b') =>
     [...runs].reverse().map((r) => ({ value: r.id, label: runChoice(r, timeZone, (days.get(r.day) ?? 0) > 1), testID: `laps-compare-${which}-${r.id}` }));
   const rows = compareRows(trend, a, b);
-  const head = (run: LapRun | null, letter: string) => (run ? `${letter}: ${shortDay(run.day)}` : letter);
+  const head = (run: LapRun | null, letter: string) => (run ? `${letter}: ${shortDay(run.day)} ${startTime(run, timeZone)}` : `${letter}: none picked`);
   return (
     <View style={styles.compare} testID="laps-compare">
       <ChoiceChips label="Run A (earlier)" choices={choices('a')} value={aId} onChange={(id) => onPick('a', id)} testID="laps-compare-a" />
       <ChoiceChips label="Run B" choices={choices('b')} value={bId} onChange={(id) => onPick('b', id)} testID="laps-compare-b" />
+      <Text weight="bold" testID="laps-compare-which">{`${head(a, 'A')} \u00B7 ${head(b, 'B')}`}</Text>
       <View role="table" aria-label={`Lap by lap: ${head(a, 'A')} against ${head(b, 'B')}`} style={styles.table} testID="laps-compare-table">
         <View role="row" style={[styles.row, styles.headRow]}>
           <View role="columnheader" style={styles.nameCell}>
             <Text variant="caption" weight="bold">Section</Text>
           </View>
           <View role="columnheader" style={styles.numCell}>
-            <Text variant="caption" weight="bold">{head(a, 'A')}</Text>
+            <Text variant="caption" weight="bold">A</Text>
           </View>
           <View role="columnheader" style={styles.numCell}>
-            <Text variant="caption" weight="bold">{head(b, 'B')}</Text>
+            <Text variant="caption" weight="bold">B</Text>
           </View>
           <View role="columnheader" style={styles.numCell}>
             <Text variant="caption" weight="bold">{'B \u2212 A'}</Text>
