@@ -7,8 +7,9 @@
  * a cell. Wide: the table beside the notes and runs; phone: stacked.
  */
 import { useQuery } from '@tanstack/react-query';
+import { useRouter } from 'expo-router';
 import { useState } from 'react';
-import { StyleSheet, View } from 'react-native';
+import { Pressable, StyleSheet, View } from 'react-native';
 
 import { weekOf } from '../../shared/weeks';
 import { useConnectivity } from '../../store/connectivity';
@@ -16,12 +17,30 @@ import { skaterWeeksQuery, type WeekRangeAsked } from '../../store/review';
 import { runsByWeekQuery } from '../../store/review-follow-up';
 import { useActiveMembership } from '../../store/session';
 import { useSkaterName } from '../../store/today';
-import { Banner, Button, Card, Heading, Screen, Text, TextLink, spacing, useBreakpoint } from '../ui';
+import { Banner, Button, Card, Heading, Screen, Text, colors, fonts, spacing, tapTarget, type, useBreakpoint } from '../ui';
 import { ReviewLegend } from '../review/legend';
 import { RangeNav } from '../review/range-controls';
 import { WeekMatrix } from '../review/week-matrix';
 import { RunsByWeek } from './runs-by-week';
 import { SharedNotes, type MyCell } from './shared-notes';
+
+/**
+ * Back to the today page this screen was opened from (the stack's previous screen, so a second
+ * today page is not stacked on the first), or to it afresh when /weeks was opened directly.
+ */
+function BackToToday() {
+  const router = useRouter();
+  return (
+    <Pressable
+      accessibilityRole="link"
+      onPress={() => (router.canGoBack() ? router.back() : router.replace('/today'))}
+      style={styles.back}
+      testID="my-weeks-back"
+    >
+      <Text style={styles.backText}>{'\u2190 Back to today'}</Text>
+    </Pressable>
+  );
+}
 
 const possessive = (name: string) => (name.endsWith('s') ? `${name}\u2019` : `${name}\u2019s`);
 
@@ -52,7 +71,7 @@ export function MyWeeksScreen() {
 
   const top = (
     <View style={styles.stack}>
-      <TextLink href="/today" label={'\u2190 Back to today'} testID="my-weeks-back" />
+      <BackToToday />
       <Heading testID="my-weeks-heading">{heading}</Heading>
       <Text tone="muted">
         {guardian
@@ -161,4 +180,7 @@ const styles = StyleSheet.create({
   panes: { flexDirection: 'row', alignItems: 'flex-start', gap: spacing.lg },
   mainWide: { flex: 1, minWidth: 0 },
   side: { width: 440, gap: spacing.lg },
+  // Looks like the kit's TextLink (underlined, bold, 48 px tall), which only takes an href.
+  back: { minHeight: tapTarget, justifyContent: 'center', alignSelf: 'flex-start' },
+  backText: { ...type.body, fontFamily: fonts.bold, color: colors.primary, textDecorationLine: 'underline' },
 });
