@@ -179,6 +179,7 @@ test('a coach reads a skater’s 1500 m over the weeks, wide and on a phone', as
     await settleLayout(page);
     await page.getByTestId('laps-controls').scrollIntoViewIfNeeded();
     await page.screenshot({ path: path.join(SHOTS, `review-laps-whole-${width}.png`) });
+    await page.getByTestId('laps-chart').screenshot({ path: path.join(SHOTS, `review-laps-chart-${width}.png`) });
   }
   check();
   await context.close();
