@@ -4,7 +4,7 @@
  * cue, the skater it is about, the evening's longer words and whether the skater may read them,
  * and a Delete that asks first (a second tap on the same spot confirms one note, never two).
  */
-import { useState } from 'react';
+import { useRef, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
 import { coachShortName } from '../../../shared/authors';
@@ -41,6 +41,8 @@ export function TidyNote({
 }) {
   const [open, setOpen] = useState(false);
   const [confirming, setConfirming] = useState(false);
+  // A gloved double tap lands twice on the confirm: only the first one deletes.
+  const deleting = useRef(false);
   const author = coachShortName(note.authorName) || 'A coach';
   const id = note.id;
   return (
@@ -86,8 +88,14 @@ export function TidyNote({
             disabled={busy}
             testID={`tidy-note-delete-yes-${id}`}
             onPress={() => {
+              if (deleting.current) return;
+              deleting.current = true;
               setConfirming(false);
-              void onChange({ kind: 'delete' }).catch(() => undefined);
+              void onChange({ kind: 'delete' })
+                .catch(() => undefined)
+                .finally(() => {
+                  deleting.current = false;
+                });
             }}
           />
           <Button label="Keep it" variant="secondary" testID={`tidy-note-delete-no-${id}`} onPress={() => setConfirming(false)} />
