@@ -188,9 +188,12 @@ describe('a point shows its run', () => {
     expect(text('laps-run-detail-title')).toBe('Tue 6 Oct 2026, 11:00');
     expect(text('laps-run-detail')).toContain('Week 2026-W41 \u00B7 timed by Marit Tweede \u00B7 inner lane');
     expect(text('laps-run-detail-finish')).toBe('Finish 1:51.45');
-    // Laps with the gap to the plan: opener 25.31 against 22.00 = +3.31.
-    expect(text('laps-run-detail')).toContain('Opener25.31+3.31 on plan');
-    expect(text('laps-run-detail')).toContain('Lap 328.55\u22120.78 on plan');
+    // Laps with km/h and the gap to the plan: opener 300 m in 25.31 = 300 x 3.6 / 25.31 = 42.67
+    // km/h, against 22.00 planned = +3.31; lap 3 400 m in 28.55 = 50.44 km/h, 29.334 planned = -0.78.
+    expect(text('laps-run-detail')).toContain('Opener25.3142.67 km/h+3.31 on plan');
+    expect(text('laps-run-detail')).toContain('Lap 328.5550.44 km/h\u22120.78 on plan');
+    // 1500 m in 1:51.45: 1500 x 3.6 / 111.45 = 48.45 km/h.
+    expect(text('laps-run-detail-speed')).toBe('Average 48.45 km/h');
     expect(getByTestIdWeb(`laps-point-${R(1)}`).props['aria-pressed']).toBe(true);
 
     // Focus shows another run while it has focus; blur goes back to the pinned one.

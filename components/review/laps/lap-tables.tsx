@@ -6,7 +6,8 @@
 import { StyleSheet, View } from 'react-native';
 
 import type { LapRun, LapTrend } from '../../../shared/schemas/review-laps';
-import { formatGap, formatRaceTime } from '../../../shared/timing';
+import { formatGap, formatRaceTime, speedKmh } from '../../../shared/timing';
+import { kmhText } from '../../clock/clock-math';
 import { Button, Card, ChoiceChips, Heading, Text, colors, spacing } from '../../ui';
 import {
   bestOf,
@@ -75,6 +76,7 @@ export function LapPointsTable({ trend, measure, timeZone }: { trend: LapTrend; 
 
 export function RunDetail({ trend, run, timeZone, pinned, onClose }: { trend: LapTrend; run: LapRun; timeZone: string; pinned: boolean; onClose: () => void }) {
   const names = sectionNames(trend);
+  const sectionM = trend.splitsAtM.map((at, i) => at - (i === 0 ? 0 : trend.splitsAtM[i - 1]));
   const state = runStateText(run, trend.splitsAtM.length);
   return (
     <View style={styles.detail} testID="laps-run-detail" aria-live="polite">
@@ -85,6 +87,11 @@ export function RunDetail({ trend, run, timeZone, pinned, onClose }: { trend: La
       <Text weight="bold" testID="laps-run-detail-finish">
         {run.finishMs !== null ? `Finish ${formatRaceTime(run.finishMs)}` : (state ?? 'No finish time')}
       </Text>
+      {run.finishMs !== null && trend.distanceM ? (
+        <Text variant="caption" tone="muted" testID="laps-run-detail-speed">
+          {`Average ${kmhText(speedKmh(trend.distanceM, run.finishMs))} km/h`}
+        </Text>
+      ) : null}
       <View role="list" aria-label="Laps of this run" style={styles.lapList}>
         {run.lapsMs.map((ms, i) => {
           const planned = trend.target?.sectionsMs[i];
@@ -92,6 +99,9 @@ export function RunDetail({ trend, run, timeZone, pinned, onClose }: { trend: La
             <View role="listitem" key={i} style={styles.lapItem}>
               <Text variant="caption">{names[i]?.short ?? `Extra crossing ${i + 1 - names.length}`}</Text>
               <Text numeric>{formatRaceTime(ms)}</Text>
+              {sectionM[i] !== undefined && ms > 0 ? (
+                <Text variant="caption" tone="muted">{`${kmhText(speedKmh(sectionM[i], ms))} km/h`}</Text>
+              ) : null}
               {planned !== undefined ? (
                 <Text variant="caption" tone="muted">{`${formatGap(ms - planned)} on plan`}</Text>
               ) : null}
