@@ -186,6 +186,16 @@ describe('bad input', () => {
     expect(res.body.error.message).toMatch(field || /colour/);
   });
 
+  it('weeks at the end of the years the server counts (2100) answer, their follow-up still to come', async () => {
+    const body = (await followUp(team.head, team.skaterA.id, { from: '2100-W40', to: '2100-W52' }).expect(200)).body as FollowUpReply;
+    expect(body).toMatchObject({ from: '2100-W40', to: '2100-W52', items: [], lapBasis: null });
+    // The same weeks in the other views (server/services/review/range.ts), and a range asked for by its start alone.
+    const weeks = await review(server.app, team.head, team.teamId, `skaters/${team.skaterA.id}/weeks`, { from: '2100-W40', to: '2100-W52' }).expect(200);
+    expect(weeks.body.weeks).toHaveLength(13);
+    const fromOnly = await review(server.app, team.head, team.teamId, `skaters/${team.skaterA.id}/runs-by-week`, { from: '2100-W50' }).expect(200);
+    expect(fromOnly.body.weeks).toEqual(['2100-W50', '2100-W51', '2100-W52']);
+  });
+
   it('a skater id that is not a UUID is 404', async () => {
     expectError(await review(server.app, team.head, team.teamId, 'skaters/nobody/follow-up'), 404);
   });

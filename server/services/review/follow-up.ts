@@ -19,7 +19,7 @@ import {
 } from '../../../shared/follow-up';
 import type { FollowUpItem, FollowUpReply, RunsByWeekReply, WeekRun } from '../../../shared/schemas/review-follow-up';
 import { addIsoWeeks, weekOf } from '../../../shared/weeks';
-import { weekRange, type WeekRange } from './range';
+import { weekRange, weeksAfter, type WeekRange } from './range';
 
 const WEEK = `'IYYY-"W"IW'`;
 
@@ -105,7 +105,9 @@ export async function skaterFollowUp(
   now = Date.now(),
 ): Promise<FollowUpReply> {
   // The counts and runs reach four weeks past the range: a stressed week's follow-up.
-  const reach = weekRange(range.from, addIsoWeeks(range.to, FOLLOW_UP_WEEKS));
+  // Near the end of 2100 (the last year a week label may name) the reach stops there: those weeks
+  // are years away, "to come" whatever they hold.
+  const reach = weekRange(range.from, weeksAfter(range.to, FOLLOW_UP_WEEKS));
   const [marks, runs] = await Promise.all([
     dataSource.query(MARKS_SQL, [teamId, timeZone, skaterId, reach.startDay, reach.endDay, phases]) as Promise<MarkRow[]>,
     finishedRuns(dataSource, teamId, skaterId, reach.startDay, reach.endDay),

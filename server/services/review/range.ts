@@ -3,8 +3,9 @@
  * only one end gets the default length (8 weeks) from that end; none at all: the last 8 weeks
  * ending with the current week in the team's zone (shared/weeks.ts, date-fns).
  */
+import { addDays, format, parseISO } from 'date-fns';
 import type { ReviewRangeQuery } from '../../../shared/schemas/review';
-import { addIsoWeeks, defaultWeekRange, DEFAULT_REVIEW_WEEKS, weeksBetween, weekStartDay } from '../../../shared/weeks';
+import { addIsoWeeks, defaultWeekRange, DEFAULT_REVIEW_WEEKS, isIsoWeek, weeksBetween, weekStartDay } from '../../../shared/weeks';
 
 export interface WeekRange {
   from: string;
@@ -20,14 +21,24 @@ export function resolveRange(query: ReviewRangeQuery, timeZone: string, now = Da
   let { from, to } = query;
   if (!from && !to) ({ from, to } = defaultWeekRange(timeZone, now));
   else if (!from) from = addIsoWeeks(to!, -(DEFAULT_REVIEW_WEEKS - 1));
-  else if (!to) to = addIsoWeeks(from, DEFAULT_REVIEW_WEEKS - 1);
+  else if (!to) to = weeksAfter(from, DEFAULT_REVIEW_WEEKS - 1);
   return weekRange(from!, to!);
 }
+
+/** The week `count` weeks after `week`, or the last week a label may name (2100's) when that is past it. */
+export function weeksAfter(week: string, count: number): string {
+  let n = count;
+  while (n > 0 && !isIsoWeek(addIsoWeeks(week, n))) n -= 1;
+  return addIsoWeeks(week, n);
+}
+
+/** The day after a week's Sunday (calendar arithmetic: no week label past 2100 is needed). */
+const dayAfterWeek = (week: string) => format(addDays(parseISO(weekStartDay(week)), 7), 'yyyy-MM-dd');
 
 export const weekRange = (from: string, to: string): WeekRange => ({
   from,
   to,
   weeks: weeksBetween(from, to),
   startDay: weekStartDay(from),
-  endDay: weekStartDay(addIsoWeeks(to, 1)),
+  endDay: dayAfterWeek(to),
 });
