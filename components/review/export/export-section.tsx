@@ -162,6 +162,7 @@ function ExportForm({ teamId, skaters, groups, timeZone, wide }: ReviewSectionPr
             setTo(fresh.to);
           }}
           testID="export-last-4-weeks"
+          style={styles.quiet}
         />
 
         <View style={styles.stack}>
@@ -308,4 +309,5 @@ const styles = StyleSheet.create({
   fieldsRow: { flexDirection: 'row', gap: spacing.md },
   field: { flex: 1 },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
+  quiet: { alignSelf: 'flex-start' },
 });

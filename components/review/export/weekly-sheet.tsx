@@ -22,23 +22,27 @@ import { longDay, weekSpanText } from '../format';
 export const SHEET_TEST_ID = 'weekly-sheet';
 const PRINT_STYLE_ID = 'boardside-weekly-sheet-print';
 
-/** The print stylesheet: only the sheet prints, black on white, on one A4 page. */
+/**
+ * The print stylesheet: only the sheet prints, black on white, on one A4 page. Everything that
+ * neither holds the sheet nor sits inside it is not displayed (the rail, the tab bar, the top
+ * bar, the review's controls); the boxes that hold it lose their padding, heights and scrolling,
+ * so the sheet flows from the page's top-left corner. (A fixed position would not do: the
+ * navigator's screen wrapper is the containing block of fixed boxes inside it.)
+ */
+const SHEET = `[data-testid="${SHEET_TEST_ID}"]`;
 const PRINT_CSS = `
 @media print {
   @page { size: A4 portrait; margin: 12mm; }
-  html, body { background: #fff !important; }
-  body * { visibility: hidden !important; }
-  [data-testid="${SHEET_TEST_ID}"], [data-testid="${SHEET_TEST_ID}"] * {
-    visibility: visible !important;
-    color: #000 !important;
-    background: #fff !important;
-    border-color: #000 !important;
-    box-shadow: none !important;
+  html, body, #root { background: #fff !important; height: auto !important; min-height: 0 !important; overflow: visible !important; }
+  body *:not(:has(${SHEET})):not(${SHEET}):not(${SHEET} *) { display: none !important; }
+  body *:has(${SHEET}) {
+    display: block !important; position: static !important; transform: none !important;
+    margin: 0 !important; padding: 0 !important; border: none !important; background: #fff !important;
+    width: auto !important; max-width: none !important; height: auto !important; min-height: 0 !important;
+    max-height: none !important; overflow: visible !important; flex: none !important;
   }
-  [data-testid="${SHEET_TEST_ID}"] {
-    position: fixed !important; left: 0; top: 0; width: 100% !important; max-width: none !important;
-    margin: 0 !important; padding: 0 !important; border: none !important;
-  }
+  ${SHEET} { width: 100% !important; max-width: none !important; margin: 0 !important; padding: 0 !important; border: none !important; }
+  ${SHEET}, ${SHEET} * { color: #000 !important; background: #fff !important; border-color: #000 !important; box-shadow: none !important; }
   [data-testid="${SHEET_TEST_ID}-actions"] { display: none !important; }
 }`;
 
