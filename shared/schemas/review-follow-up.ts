@@ -91,6 +91,22 @@ export const followUpReplySchema = z.object({
 });
 export type FollowUpReply = z.infer<typeof followUpReplySchema>;
 
+const lapBasisSchema = z.object({ distanceM: z.number().int(), track: z.enum(['long', 'short']), runs: z.number().int() }).nullable();
+
+/** The same over a group's live skaters (coaches only): only skaters with a stressed cue, by name. */
+export const groupFollowUpReplySchema = z.object({
+  timeZone: z.string(),
+  from: z.string(),
+  to: z.string(),
+  threshold: z.number().int(),
+  currentWeek: z.string(),
+  group: z.string(),
+  skaters: z.array(
+    z.object({ skaterId: z.uuid(), displayName: z.string(), lapBasis: lapBasisSchema, items: z.array(followUpItemSchema) }),
+  ),
+});
+export type GroupFollowUpReply = z.infer<typeof groupFollowUpReplySchema>;
+
 /** One finished run of the skater, for "my weeks". */
 export const weekRunSchema = z.object({
   id: z.uuid(),

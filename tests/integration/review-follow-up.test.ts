@@ -15,7 +15,7 @@
  * change +120 ms.
  */
 import request from 'supertest';
-import type { FollowUpReply, RunsByWeekReply } from '../../shared/schemas/review-follow-up';
+import type { FollowUpReply, GroupFollowUpReply, RunsByWeekReply } from '../../shared/schemas/review-follow-up';
 import { expectError, startTestServer, type Account, type TestServer } from './helpers';
 import { cueOf, makeReviewTeam, pushNotes, review, type NoteAt, type ReviewTeam } from './review-helpers';
 import { crossingCreate, runCreate } from './support/clock-ops';
@@ -168,6 +168,42 @@ describe('follow-up figures', () => {
     expect(body.items).toHaveLength(1);
     expect(body.items[0]).toMatchObject({ cueId: cueX, week: '2026-W07', needsWork: 3, verdict: 'not enough data', afterMarks: 0, changePoints: null });
     expect(body.items[0].laps).toEqual({ runs: 0, laps: 0, meanLapMs: null });
+  });
+});
+
+describe('the whole group (coaches only)', () => {
+  it('lists every skater with a stressed cue, by name, each with the figures of their own view', async () => {
+    const body = (await review(server.app, team.coach, team.teamId, 'groups/all/follow-up', range).expect(200)).body as GroupFollowUpReply;
+    expect(body).toMatchObject({ group: 'all', threshold: 3, from: '2026-W06', to: '2026-W10', timeZone: 'America/Toronto' });
+    expect(body.skaters.map((s) => [s.displayName, s.items.map((i) => `${i.week} ${i.verdict}`)])).toEqual([
+      ['Hidde Vlakijs', ['2026-W07 not enough data']],
+      ['Wietske Rondbaan', ['2026-W10 not enough data', '2026-W08 persisting', '2026-W06 fading']],
+    ]);
+    const own = (await followUp(team.head, team.skaterA.id).expect(200)).body as FollowUpReply;
+    const a = body.skaters[1];
+    expect(a.lapBasis).toEqual(own.lapBasis);
+    expect(a.items).toEqual(own.items);
+    // 'none' (skaters in no group) is everyone here; at N = 4 only Wietske's W08 is left.
+    const none = (await review(server.app, team.head, team.teamId, 'groups/none/follow-up', { ...range, threshold: '4' }).expect(200))
+      .body as GroupFollowUpReply;
+    expect(none.skaters.map((s) => [s.displayName, s.items.map((i) => i.week)])).toEqual([['Wietske Rondbaan', ['2026-W08']]]);
+  });
+
+  it.each([
+    ['skater', 403],
+    ['guardian', 403],
+    ['otherHead', 404],
+  ] as const)('%s: %i', async (who, status) => {
+    const as = { skater: team.skaterAccount, guardian: team.guardian, otherHead: other.head }[who];
+    expectError(await review(server.app, as, team.teamId, 'groups/all/follow-up', range), status);
+  });
+
+  it('a group that is not the team’s is 404; a bad threshold 400', async () => {
+    expectError(await review(server.app, team.head, team.teamId, 'groups/0190a0b0-0000-7000-8000-0000000000d1/follow-up', range), 404);
+    expectError(await review(server.app, team.head, team.teamId, 'groups/some/follow-up', range), 404);
+    const bad = await review(server.app, team.head, team.teamId, 'groups/all/follow-up', { threshold: '99' });
+    expectError(bad, 400, 'validation');
+    expect(Object.keys(bad.body.error.fields)).toEqual(['threshold']);
   });
 });
 

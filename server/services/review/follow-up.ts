@@ -17,7 +17,8 @@ import {
   lapsInWeeks,
   type TimedRun,
 } from '../../../shared/follow-up';
-import type { FollowUpItem, FollowUpReply, RunsByWeekReply, WeekRun } from '../../../shared/schemas/review-follow-up';
+import type { ReviewGroup } from '../../../shared/schemas/review';
+import type { FollowUpItem, FollowUpReply, GroupFollowUpReply, RunsByWeekReply, WeekRun } from '../../../shared/schemas/review-follow-up';
 import { addIsoWeeks, weekOf } from '../../../shared/weeks';
 import { weekRange, weeksAfter, type WeekRange } from './range';
 
@@ -91,28 +92,8 @@ async function finishedRuns(dataSource: DataSource, teamId: string, skaterId: st
 const timed = (runs: RunRow[]): TimedRun[] =>
   runs.map((r) => ({ week: r.week, distanceM: r.distance_m, track: r.track, crossingsMs: r.crossings.map((c) => c.atMs) }));
 
-/**
- * The stressed (cue, week) pairs of `range` for one skater, each with the four weeks after it.
- * The caller has checked the viewer may see this skater.
- */
-export async function skaterFollowUp(
-  dataSource: DataSource,
-  teamId: string,
-  timeZone: string,
-  skaterId: string,
-  range: WeekRange,
-  threshold: number,
-  now = Date.now(),
-): Promise<FollowUpReply> {
-  // The counts and runs reach four weeks past the range: a stressed week's follow-up.
-  // Near the end of 2100 (the last year a week label may name) the reach stops there: those weeks
-  // are years away, "to come" whatever they hold.
-  const reach = weekRange(range.from, weeksAfter(range.to, FOLLOW_UP_WEEKS));
-  const [marks, runs] = await Promise.all([
-    dataSource.query(MARKS_SQL, [teamId, timeZone, skaterId, reach.startDay, reach.endDay, phases]) as Promise<MarkRow[]>,
-    finishedRuns(dataSource, teamId, skaterId, reach.startDay, reach.endDay),
-  ]);
-  const currentWeek = weekOf(now, timeZone);
+/** One skater's stressed (cue, week) pairs in `range` from their counts and runs (shared/follow-up.ts decides). */
+function assemble(marks: MarkRow[], runs: RunRow[], range: WeekRange, threshold: number, currentWeek: string) {
   const timedRuns = timed(runs);
   const basis = lapBasisOf(timedRuns);
   const inRange = new Set(range.weeks);
@@ -164,15 +145,112 @@ export async function skaterFollowUp(
     }
   }
   items.sort((a, b) => (a.week === b.week ? a.order - b.order : a.week < b.week ? 1 : -1));
-  return {
-    timeZone,
-    from: range.from,
-    to: range.to,
-    threshold,
-    currentWeek,
-    lapBasis: basis,
-    items: items.map(({ order: _order, ...item }) => item),
-  };
+  return { lapBasis: basis, items: items.map(({ order: _order, ...item }) => item) };
+}
+
+/**
+ * The counts and runs reach four weeks past the range: a stressed week's follow-up. Near the end
+ * of 2100 (the last year a week label may name) the reach stops there: those weeks are years
+ * away, "to come" whatever they hold.
+ */
+const reachOf = (range: WeekRange) => weekRange(range.from, weeksAfter(range.to, FOLLOW_UP_WEEKS));
+
+/**
+ * The stressed (cue, week) pairs of `range` for one skater, each with the four weeks after it.
+ * The caller has checked the viewer may see this skater.
+ */
+export async function skaterFollowUp(
+  dataSource: DataSource,
+  teamId: string,
+  timeZone: string,
+  skaterId: string,
+  range: WeekRange,
+  threshold: number,
+  now = Date.now(),
+): Promise<FollowUpReply> {
+  const reach = reachOf(range);
+  const [marks, runs] = await Promise.all([
+    dataSource.query(MARKS_SQL, [teamId, timeZone, skaterId, reach.startDay, reach.endDay, phases]) as Promise<MarkRow[]>,
+    finishedRuns(dataSource, teamId, skaterId, reach.startDay, reach.endDay),
+  ]);
+  const currentWeek = weekOf(now, timeZone);
+  return { timeZone, from: range.from, to: range.to, threshold, currentWeek, ...assemble(marks, runs, range, threshold, currentWeek) };
+}
+
+/** Live (not retired, not deleted) skaters of a group ('all': the team; 'none': in no group); $1 team, $2 group id or null. */
+function membersSql(group: ReviewGroup): { sql: string; param: string | null } {
+  const base = `SELECT s.id, s.display_name FROM skaters s WHERE s.team_id = $1 AND s.deleted_at IS NULL AND s.retired_at IS NULL`;
+  if (group === 'all') return { sql: `${base} AND $2::uuid IS NULL`, param: null };
+  if (group === 'none') return { sql: `${base} AND s.group_id IS NULL AND $2::uuid IS NULL`, param: null };
+  return { sql: `${base} AND s.group_id = $2::uuid`, param: group };
+}
+
+/**
+ * The same for every live skater of a group (coaches only): one statement counts the marks per
+ * skater, cue and week; one reads the members' finished runs; each skater's stressed cues are then
+ * assembled as for one skater (their own lap basis). Skaters without a stressed cue are left out.
+ */
+export async function groupFollowUp(
+  dataSource: DataSource,
+  teamId: string,
+  timeZone: string,
+  group: ReviewGroup,
+  range: WeekRange,
+  threshold: number,
+  now = Date.now(),
+): Promise<GroupFollowUpReply> {
+  const reach = reachOf(range);
+  const members = membersSql(group);
+  const [people, marks, runs] = await Promise.all([
+    dataSource.query(`${members.sql} ORDER BY s.display_name COLLATE "und-x-icu", s.id`, [teamId, members.param]) as Promise<
+      { id: string; display_name: string }[]
+    >,
+    dataSource.query(
+      `WITH members AS (${members.sql}),
+       cells AS (
+         SELECT o.skater_id, o.cue_id,
+                to_char(o.created_at AT TIME ZONE $3, ${WEEK}) AS week,
+                count(*) FILTER (WHERE o.mark = 'needs_work')::int AS needs_work,
+                count(*) FILTER (WHERE o.mark = 'good')::int AS good
+           FROM observations o
+          WHERE o.team_id = $1 AND o.deleted_at IS NULL AND o.skater_id IN (SELECT id FROM members)
+            AND o.created_at >= ($4::date::timestamp AT TIME ZONE $3) AND o.created_at < ($5::date::timestamp AT TIME ZONE $3)
+          GROUP BY 1, 2, 3
+       )
+       SELECT cells.skater_id, c.id AS cue_id, c.phase, c.label, c.archived, cells.week, cells.needs_work, cells.good
+         FROM cells
+         JOIN cues c ON c.team_id = $1 AND c.id = cells.cue_id AND c.deleted_at IS NULL
+        ORDER BY cells.skater_id, array_position($6::text[], c.phase), c.sort_order, c.label, c.id, cells.week`,
+      [teamId, members.param, timeZone, reach.startDay, reach.endDay, phases],
+    ) as Promise<(MarkRow & { skater_id: string })[]>,
+    dataSource.query(
+      `WITH members AS (${members.sql})
+       SELECT r.skater_id, to_char(r.day::date, ${WEEK}) AS week, r.distance_m, r.track,
+              coalesce(x.crossings, '[]'::json) AS crossings
+         FROM runs r
+         LEFT JOIN LATERAL (
+           SELECT json_agg(json_build_object('atMs', c.at_ms) ORDER BY c.at_ms, c.id) AS crossings
+             FROM crossings c
+            WHERE c.team_id = r.team_id AND c.run_id = r.id AND c.deleted_at IS NULL
+         ) x ON true
+        WHERE r.team_id = $1 AND r.skater_id IN (SELECT id FROM members) AND r.deleted_at IS NULL AND r.status = 'finished'
+          AND r.day >= $3 AND r.day < $4`,
+      [teamId, members.param, reach.startDay, reach.endDay],
+    ) as Promise<(RunRow & { skater_id: string })[]>,
+  ]);
+  const currentWeek = weekOf(now, timeZone);
+  const skaters: GroupFollowUpReply['skaters'] = [];
+  for (const person of people) {
+    const own = assemble(
+      marks.filter((m) => m.skater_id === person.id),
+      runs.filter((r) => r.skater_id === person.id),
+      range,
+      threshold,
+      currentWeek,
+    );
+    if (own.items.length > 0) skaters.push({ skaterId: person.id, displayName: person.display_name, ...own });
+  }
+  return { timeZone, from: range.from, to: range.to, threshold, currentWeek, group, skaters };
 }
 
 /** The skater's finished runs in the range's weeks (by rink day), newest first. */
