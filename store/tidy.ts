@@ -38,15 +38,18 @@ export function useTidyChange(teamId: string) {
   const role = useActiveMembership()?.role;
   return useMutation({
     networkMode: 'always',
-    mutationFn: async (change: TidyChange) => {
+    /** Resolves to the session that is left (a merge), else null. */
+    mutationFn: async (change: TidyChange): Promise<string | null> => {
       const store = await deviceStore();
       switch (change.kind) {
         case 'fix':
-          return void (await store.fixNote(change.id, userId, change.fix, role));
+          await store.fixNote(change.id, userId, change.fix, role);
+          return null;
         case 'delete':
-          return store.removeObservations([change.id], userId, role);
+          await store.removeObservations([change.id], userId, role);
+          return null;
         case 'merge':
-          return void (await store.mergeSessions(teamId, userId, change.a, change.b, role));
+          return (await store.mergeSessions(teamId, userId, change.a, change.b, role)).kept;
       }
     },
     onSettled: () => {

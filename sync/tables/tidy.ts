@@ -44,9 +44,14 @@ const SESSION_SELECT = `SELECT id, team_id, ${selectColumns('sessions')} FROM se
  * its live notes, newest first. `days` bounds how many days come back (the most recent ones).
  */
 export async function listTidySessions(ctx: StoreContext, teamId: string, days = 60): Promise<TidySession[]> {
+  // A session only this device knows, with no notes and nothing queued, is a board that was
+  // opened and never used (it joins the outbox with its first note or edit): not listed.
+  const used = `deleted = 0 AND (synced = 1
+      OR EXISTS (SELECT 1 FROM observations o WHERE o.session_id = sessions.id AND o.deleted = 0)
+      OR EXISTS (SELECT 1 FROM outbox x WHERE x.tbl = 'sessions' AND x.record_id = sessions.id))`;
   const sessionRows = await ctx.db.all<Record<string, SqlValue>>(
-    `${SESSION_SELECT} WHERE team_id = ? AND deleted = 0
-       AND day IN (SELECT DISTINCT day FROM sessions WHERE team_id = ? AND deleted = 0 ORDER BY day DESC LIMIT ?)
+    `${SESSION_SELECT} WHERE team_id = ? AND ${used}
+       AND day IN (SELECT DISTINCT day FROM sessions WHERE team_id = ? AND ${used} ORDER BY day DESC LIMIT ?)
      ORDER BY day DESC, created_at DESC, id`,
     [teamId, teamId, days],
   );

@@ -148,6 +148,14 @@ describe('the sessions by day', () => {
     expect(mine.notes.map((n) => n.id)).toEqual([note.id]);
     expect(list.find((s) => s.id === second.id)!.boardSession).toBe(false);
   });
+
+  it('leaves out a board opened and never used (no notes, nothing queued), and shows it once it is', async () => {
+    const { store } = await openStore();
+    const opened = await store.startSession(TEAM, HEAD, '2026-12-03');
+    expect((await store.listTidySessions(TEAM)).map((s) => s.id)).not.toContain(opened.id);
+    await store.updateSession(opened.id, HEAD, { title: 'Pairs' });
+    expect((await store.listTidySessions(TEAM))[0]).toMatchObject({ id: opened.id, day: '2026-12-03', title: 'Pairs', notes: [] });
+  });
 });
 
 describe('merging two sessions of one day', () => {

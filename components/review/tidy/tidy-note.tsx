@@ -37,7 +37,7 @@ export function TidyNote({
   canChange: boolean;
   busy: boolean;
   /** Resolves once written on the device (rejects with the store's reason). */
-  onChange: (change: NoteChange) => Promise<void>;
+  onChange: (change: NoteChange) => Promise<unknown>;
 }) {
   const [open, setOpen] = useState(false);
   const [confirming, setConfirming] = useState(false);

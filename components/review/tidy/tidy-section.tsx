@@ -50,10 +50,11 @@ export function TidySection({ teamId, skaters, wide }: ReviewSectionProps) {
   const onBoard = useMemo(() => skaters.filter((s) => !s.retired), [skaters]);
   const cueById = useMemo(() => new Map(cues.map((c) => [c.id, c])), [cues]);
 
-  const apply = async (run: () => Promise<unknown>, done: string) => {
+  const apply = async <T,>(run: () => Promise<T>, done: string): Promise<T> => {
     setMessage(null);
+    let result: T;
     try {
-      await run();
+      result = await run();
     } catch (cause) {
       const text = cause instanceof Error ? cause.message : 'The change could not be saved on this device.';
       setMessage({ kind: 'error', text });
@@ -61,6 +62,7 @@ export function TidySection({ teamId, skaters, wide }: ReviewSectionProps) {
     }
     setMessage({ kind: 'success', text: `${done} Saved on this device; it is sent with the sync.` });
     void runSync(teamId).catch(() => undefined);
+    return result;
   };
 
   const onNote = (noteId: string) => (c: NoteChange) =>
@@ -143,7 +145,8 @@ export function TidySection({ teamId, skaters, wide }: ReviewSectionProps) {
                   onPress={() => {
                     setMerging(null);
                     void apply(() => change.mutateAsync({ kind: 'merge', a: current.id, b: other.id }), 'Sessions merged.')
-                      .then(() => setPicked(null))
+                      // Show the session that is left, with every note.
+                      .then((kept) => setPicked(kept))
                       .catch(() => undefined);
                   }}
                 />
