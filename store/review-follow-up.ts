@@ -6,20 +6,25 @@
  */
 import { queryOptions } from '@tanstack/react-query';
 
-import { followUpReplySchema, runsByWeekReplySchema } from '../shared/schemas/review-follow-up';
+import type { ReviewGroup } from '../shared/schemas/review';
+import { followUpReplySchema, groupFollowUpReplySchema, runsByWeekReplySchema } from '../shared/schemas/review-follow-up';
 import { apiRequestParsed } from './api';
 import { reviewKeys, type WeekRangeAsked } from './review';
 
 export const followUpKeys = {
   skater: (teamId: string, skaterId: string, threshold: number, range: WeekRangeAsked) =>
     [...reviewKeys.team(teamId), 'follow-up', skaterId, threshold, range?.from ?? 'default', range?.to ?? 'default'] as const,
+  group: (teamId: string, group: ReviewGroup, threshold: number, range: WeekRangeAsked) =>
+    [...reviewKeys.team(teamId), 'follow-up-group', group, threshold, range?.from ?? 'default', range?.to ?? 'default'] as const,
   runs: (teamId: string, skaterId: string, range: WeekRangeAsked) =>
     [...reviewKeys.team(teamId), 'runs-by-week', skaterId, range?.from ?? 'default', range?.to ?? 'default'] as const,
 };
 
-const path = (teamId: string, skaterId: string, rest: string, query: Record<string, string>) => {
+const path = (teamId: string, skaterId: string, rest: string, query: Record<string, string>) => reviewPath(teamId, `skaters/${encodeURIComponent(skaterId)}/${rest}`, query);
+
+const reviewPath = (teamId: string, rest: string, query: Record<string, string>) => {
   const search = new URLSearchParams(query).toString();
-  return `/api/teams/${encodeURIComponent(teamId)}/review/skaters/${encodeURIComponent(skaterId)}/${rest}${search ? `?${search}` : ''}`;
+  return `/api/teams/${encodeURIComponent(teamId)}/review/${rest}${search ? `?${search}` : ''}`;
 };
 
 const rangeQuery = (range: WeekRangeAsked): Record<string, string> => (range ? { from: range.from, to: range.to } : {});
@@ -37,6 +42,20 @@ export function followUpQuery(teamId: string, skaterId: string, threshold: numbe
         signal,
       }),
     placeholderData: (previous, previousQuery) => (previousQuery?.queryKey[3] === skaterId ? previous : undefined),
+  });
+}
+
+/** The same for every skater of a group with a stressed cue (coaches only; 'all', 'none' or a group's id). */
+export function groupFollowUpQuery(teamId: string, group: ReviewGroup, threshold: number, range: WeekRangeAsked) {
+  return queryOptions({
+    queryKey: followUpKeys.group(teamId, group, threshold, range),
+    queryFn: ({ signal }) =>
+      apiRequestParsed(
+        reviewPath(teamId, `groups/${encodeURIComponent(group)}/follow-up`, { threshold: String(threshold), ...rangeQuery(range) }),
+        groupFollowUpReplySchema,
+        { signal },
+      ),
+    placeholderData: (previous, previousQuery) => (previousQuery?.queryKey[3] === group ? previous : undefined),
   });
 }
 

@@ -11,7 +11,7 @@ import { useState } from 'react';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 
 import { FollowUpSection } from '../../components/review/follow-up/follow-up-section';
-import type { FollowUpItem, FollowUpReply } from '../../shared/schemas/review-follow-up';
+import type { FollowUpItem, FollowUpReply, GroupFollowUpReply } from '../../shared/schemas/review-follow-up';
 import { fakeResponse } from './fake-fetch';
 import { fireWeb, getByTestIdWeb, queryByTestIdWeb, textOf } from './web-queries';
 
@@ -52,6 +52,15 @@ const reply = (threshold: number): FollowUpReply => ({
   items: threshold <= 3 ? [unknown, fading] : [],
 });
 
+const groupReply: GroupFollowUpReply = {
+  timeZone: 'America/Toronto', from: '2026-W02', to: '2026-W49', threshold: 3, currentWeek: '2026-W49', group: 'all',
+  skaters: [
+    { skaterId: ANNA, displayName: 'Anna Reede', lapBasis: { distanceM: 1500, track: 'long', runs: 3 }, items: [fading] },
+    // The same cue and week for another skater: the cards keep apart.
+    { skaterId: BEREND, displayName: 'Berend Visser', lapBasis: null, items: [{ ...fading, laps: noLaps, afterLaps: noLaps, lapChangeMs: null }] },
+  ],
+};
+
 const skaters = [
   { id: ANNA, displayName: 'Anna Reede', groupId: null, hasAccount: false, retired: false },
   { id: BEREND, displayName: 'Berend Visser', groupId: null, hasAccount: true, retired: false },
@@ -67,6 +76,7 @@ beforeEach(() => {
   fetchMock.mockImplementation((url: string) => {
     const u = new URL(url, 'http://x');
     if (failWith) return Promise.resolve(fakeResponse(failWith.status, failWith.body));
+    if (u.pathname.includes('/groups/')) return Promise.resolve(fakeResponse(200, groupReply));
     if (u.pathname.endsWith('/follow-up')) return Promise.resolve(fakeResponse(200, reply(Number(u.searchParams.get('threshold')))));
     return Promise.resolve(fakeResponse(404, { error: { code: 'not_found', message: 'no route' } }));
   });
@@ -164,6 +174,22 @@ describe('cue follow-up', () => {
     expect(getByTestIdWeb('follow-up-threshold-down').props['aria-disabled']).toBe(true);
     await tap('follow-up-threshold-down');
     expect(text('follow-up-threshold-value')).toBe('1');
+  });
+
+  it('the whole group lists each skater with a stressed cue, and opens one of them', async () => {
+    renderSection();
+    await tap('follow-up-mode-group');
+    await shown(`follow-up-skater-${BEREND}`);
+    const groupUrl = fetchMock.mock.calls.map(([u]) => new URL(String(u), 'http://x')).find((u) => u.pathname.includes('/groups/'))!;
+    expect(groupUrl.pathname).toBe(`/api/teams/${TEAM}/review/groups/all/follow-up`);
+    expect(groupUrl.searchParams.get('threshold')).toBe('3');
+    expect(text('follow-up-heading')).toBe('Follow-up: All skaters');
+    expect(text('follow-up-summary')).toMatch(/^2 skaters in All skaters with a stressed cue between 2026-W02 and 2026-W49 \(2 cue-weeks, 3 or more/);
+    expect(text(`follow-up-item-${ANNA}-${SIT}-2026-W06-verdict`)).toMatch(/^\u2193 Fading4 good of 6 marks/);
+    expect(text(`follow-up-item-${BEREND}-${SIT}-2026-W06-laps`)).toBe('Lap times: no fully timed, finished runs in these weeks.');
+    await tap(`follow-up-open-${BEREND}`);
+    await waitFor(() => expect(text('follow-up-heading')).toBe('Follow-up: Berend Visser'));
+    expect(followUpUrls().some((u) => u.pathname.endsWith(`/skaters/${BEREND}/follow-up`))).toBe(true);
   });
 
   it('says what went wrong when the server refuses', async () => {

@@ -15,8 +15,19 @@ import { goodOf, lapCell, lapSentence, verdictSentence, verdictSigns } from './w
 
 export const itemKey = (item: Pick<FollowUpItem, 'cueId' | 'week'>) => `${item.cueId}-${item.week}`;
 
-export function FollowUpItemCard({ item, basis, compact }: { item: FollowUpItem; basis: FollowUpReply['lapBasis']; compact: boolean }) {
-  const id = `follow-up-item-${itemKey(item)}`;
+export function FollowUpItemCard({
+  item,
+  basis,
+  compact,
+  skaterId,
+}: {
+  item: FollowUpItem;
+  basis: FollowUpReply['lapBasis'];
+  compact: boolean;
+  /** In the whole group's list: the skater, so two skaters' cards of one cue and week keep apart. */
+  skaterId?: string;
+}) {
+  const id = `follow-up-item-${skaterId ? `${skaterId}-` : ''}${itemKey(item)}`;
   const sign = verdictSigns[item.verdict];
   const rows = [
     { week: item.week, label: 'Stressed', needsWork: item.needsWork, good: item.good, counted: true, laps: item.laps },

@@ -3,7 +3,8 @@
  * every cue stressed in the weeks shown (at least N "needs work" marks in a week, N on the
  * stepper, default 3), each with the four weeks after it (good marks out of all marks, the mean
  * lap of the skater's most-timed distance with its runs) and the verdict with the counts it rests
- * on. The rule (shared/follow-up.ts) is written under the list. The server counts and decides;
+ * on. "Whole group" shows the same for every skater of the group chosen in the list who has a
+ * stressed cue. The rule (shared/follow-up.ts) is written under the list. The server counts and decides;
  * the screen only shows. Wide: the skater list beside the results; phone: stacked, the list folded
  * to one line once a skater is picked.
  */
@@ -13,13 +14,14 @@ import { StyleSheet, View } from 'react-native';
 
 import { DEFAULT_STRESS_THRESHOLD, FOLLOW_UP_RULE, LAP_RULE } from '../../../shared/follow-up';
 import type { ReviewGroup } from '../../../shared/schemas/review';
+import type { GroupFollowUpReply } from '../../../shared/schemas/review-follow-up';
 import { weekOf } from '../../../shared/weeks';
 import type { WeekRangeAsked } from '../../../store/review';
-import { followUpQuery } from '../../../store/review-follow-up';
-import { Banner, Button, Card, Heading, Text, spacing } from '../../ui';
+import { followUpQuery, groupFollowUpQuery } from '../../../store/review-follow-up';
+import { Banner, Button, Card, ChoiceChips, Heading, Text, spacing } from '../../ui';
 import { RangeEntry, RangeNav } from '../range-controls';
 import type { ReviewSectionProps } from '../section-props';
-import { SkaterPane } from '../skater-pane';
+import { SkaterPane, groupName } from '../skater-pane';
 import { FollowUpItemCard, itemKey } from './follow-up-item';
 import { ThresholdStepper } from './threshold-stepper';
 import { basisWords } from './words';
@@ -31,23 +33,26 @@ export function FollowUpSection({ teamId, skaters, groups, skaterId, group: star
   const [search, setSearch] = useState('');
   const [showRetired, setShowRetired] = useState(false);
   const [listOpen, setListOpen] = useState(false);
+  const [mode, setMode] = useState<'skater' | 'group'>('skater');
 
   const skater = skaters.find((s) => s.id === skaterId) ?? null;
-  const result = useQuery({ ...followUpQuery(teamId, skaterId ?? '', threshold, range), enabled: !!teamId && !!skaterId });
+  const result = useQuery({ ...followUpQuery(teamId, skaterId ?? '', threshold, range), enabled: !!teamId && !!skaterId && mode === 'skater' });
+  const groupResult = useQuery({ ...groupFollowUpQuery(teamId, group, threshold, range), enabled: !!teamId && mode === 'group' });
   const data = result.data;
-  const zone = data?.timeZone ?? timeZone;
-  const currentWeek = data?.currentWeek ?? weekOf(Date.now(), zone);
+  const shownRange = mode === 'group' ? groupResult.data : data;
+  const zone = shownRange?.timeZone ?? timeZone;
+  const currentWeek = shownRange?.currentWeek ?? weekOf(Date.now(), zone);
 
-  const listShown = wide || !skater || listOpen;
+  const listShown = mode === 'skater' && (wide || !skater || listOpen);
   const who =
-    !wide && skater && !listOpen ? (
+    mode === 'skater' && !wide && skater && !listOpen ? (
       <View style={styles.compactWho} testID="follow-up-who">
         <Text weight="bold" style={styles.grow}>{`Skater: ${skater.displayName}`}</Text>
         <Button label="Change skater" variant="secondary" onPress={() => setListOpen(true)} testID="follow-up-change-skater" />
       </View>
     ) : (
       <Card testID="follow-up-who" style={wide ? styles.paneWide : undefined}>
-        <Heading level={2}>Skaters</Heading>
+        <Heading level={2}>{mode === 'group' ? 'Group' : 'Skaters'}</Heading>
         <SkaterPane
           groups={[...groups]}
           skaters={[...skaters]}
@@ -68,7 +73,22 @@ export function FollowUpSection({ teamId, skaters, groups, skaterId, group: star
     );
 
   let body;
-  if (!skater) {
+  if (mode === 'group') {
+    body = (
+      <GroupBody
+        result={groupResult}
+        wide={wide}
+        currentWeek={currentWeek}
+        isDefault={range === null}
+        onRange={setRange}
+        groupLabel={groupName([...groups], group)}
+        onOpenSkater={(id) => {
+          onPickSkater(id);
+          setMode('skater');
+        }}
+      />
+    );
+  } else if (!skater) {
     body = (
       <Text tone="muted" testID="follow-up-pick-skater">
         Pick a skater to see which cues were stressed for them and what followed.
@@ -130,8 +150,18 @@ export function FollowUpSection({ teamId, skaters, groups, skaterId, group: star
   const results = (
     <Card testID="follow-up-pane" style={wide ? styles.mainWide : undefined}>
       <Heading level={2} testID="follow-up-heading">
-        {skater ? `Follow-up: ${skater.displayName}` : 'Follow-up'}
+        {mode === 'group' ? `Follow-up: ${groupName([...groups], group)}` : skater ? `Follow-up: ${skater.displayName}` : 'Follow-up'}
       </Heading>
+      <ChoiceChips<'skater' | 'group'>
+        label="Show"
+        choices={[
+          { value: 'skater', label: 'One skater', testID: 'follow-up-mode-skater' },
+          { value: 'group', label: 'Whole group', testID: 'follow-up-mode-group' },
+        ]}
+        value={mode}
+        onChange={setMode}
+        testID="follow-up-mode"
+      />
       <ThresholdStepper value={threshold} onChange={setThreshold} />
       {body}
       <Text variant="caption" tone="muted" testID="follow-up-rule">
@@ -153,6 +183,85 @@ export function FollowUpSection({ teamId, skaters, groups, skaterId, group: star
     <View style={styles.stack} testID="follow-up">
       {who}
       {results}
+    </View>
+  );
+}
+
+type GroupResult = ReturnType<typeof useQuery<GroupFollowUpReply>>;
+
+/** Every skater of the group with a stressed cue, by name, each with their cards. */
+function GroupBody({
+  result,
+  wide,
+  currentWeek,
+  isDefault,
+  onRange,
+  groupLabel,
+  onOpenSkater,
+}: {
+  result: GroupResult;
+  wide: boolean;
+  currentWeek: string;
+  isDefault: boolean;
+  onRange: (range: WeekRangeAsked) => void;
+  groupLabel: string;
+  onOpenSkater: (id: string) => void;
+}) {
+  const data = result.data;
+  if (result.isPending && !data)
+    return (
+      <Text tone="muted" role="status" testID="follow-up-loading">
+        Loading the group's follow-up…
+      </Text>
+    );
+  if (result.isError && !data)
+    return (
+      <View style={styles.stack}>
+        <Banner kind="error" title="Could not load the follow-up" testID="follow-up-error">
+          {result.error.message}
+        </Banner>
+        <Button label="Try again" variant="secondary" onPress={() => void result.refetch()} testID="follow-up-retry" />
+      </View>
+    );
+  if (!data) return null;
+  const count = data.skaters.reduce((n, s) => n + s.items.length, 0);
+  return (
+    <View style={styles.stack}>
+      <RangeNav shown={{ from: data.from, to: data.to }} currentWeek={currentWeek} isDefault={isDefault} onRange={onRange} compact={!wide} />
+      {result.isPlaceholderData ? (
+        <Text tone="muted" role="status" testID="follow-up-loading">
+          Loading what was asked for… (the list shows the previous answer)
+        </Text>
+      ) : null}
+      <Text testID="follow-up-summary" aria-live="polite">
+        {count === 0
+          ? `No cue got ${data.threshold} or more \u201Cneeds work\u201D marks in one week for anyone in ${groupLabel} between ${data.from} and ${data.to}.`
+          : `${data.skaters.length === 1 ? '1 skater' : `${data.skaters.length} skaters`} in ${groupLabel} with a stressed cue between ${data.from} and ${data.to} (${count} cue-${count === 1 ? 'week' : 'weeks'}, ${data.threshold} or more \u201Cneeds work\u201D marks in a week).`}
+      </Text>
+      {data.skaters.map((s) => (
+        <View key={s.skaterId} style={styles.stack} testID={`follow-up-skater-${s.skaterId}`}>
+          <View style={styles.compactWho}>
+            <Heading level={3} style={styles.grow}>{`${s.displayName} (${s.items.length})`}</Heading>
+            <Button
+              label="Only this skater"
+              variant="secondary"
+              accessibilityLabel={`Only ${s.displayName}`}
+              onPress={() => onOpenSkater(s.skaterId)}
+              testID={`follow-up-open-${s.skaterId}`}
+            />
+          </View>
+          {s.lapBasis ? (
+            <Text variant="caption" tone="muted">{`Lap times of ${basisWords(s.lapBasis)}, ${s.displayName}\u2019s most-timed distance.`}</Text>
+          ) : null}
+          <View role="list" aria-label={`Stressed cues, ${s.displayName}`} style={styles.list}>
+            {s.items.map((item) => (
+              <View role="listitem" key={itemKey(item)}>
+                <FollowUpItemCard item={item} basis={s.lapBasis} compact={!wide} skaterId={s.skaterId} />
+              </View>
+            ))}
+          </View>
+        </View>
+      ))}
     </View>
   );
 }
