@@ -2,7 +2,7 @@
  * The review's CSV export and weekly sheet (issue #10 §5).
  *
  * Export: rows are read in keyset pages of EXPORT_PAGE rows, ordered by (created_at, id) for
- * notes and (started_at, id) for runs, team_id leading every read (ix_observations_review_team,
+ * notes and (started_at, id) for runs, team_id leading every read (ix_observations_export,
  * ix_runs_review_started). A page is asked for only when the CSV stream wants more
  * (Readable.from over an async generator: the socket's backpressure reaches the database), so a
  * 100,000-row export never holds more than one page. Days and times are in the team's zone: the
@@ -92,8 +92,8 @@ export const observationColumns = [
 
 interface ObservationRow {
   id: string;
+  /** created_at / started_at as PostgreSQL writes it (with its offset): the next page's start. */
   cursor_at: string;
-  day: string;
   week: string;
   local: string;
   offset_s: number;
@@ -114,11 +114,24 @@ interface ObservationRow {
 
 const localMidnight = (param: string) => `(${param}::date::timestamp AT TIME ZONE $2)`;
 
-/** $1 team, $2 zone, $3 first day, $4 the day after the last, $5 skater ids or null, [$6 $7 the keyset]. */
+/**
+ * $1 team, $2 zone, $3 first day, $4 the day after the last, $5 skater ids or null, [$6 $7 the
+ * keyset]. The page's notes are picked first (an index range of ix_observations_export, in
+ * order), and only those are joined to their names: joined first, the planner sorted the whole
+ * rest of the range for every page.
+ */
 const observationSql = (after: boolean) => `
+  WITH page AS MATERIALIZED (
+    SELECT o.* FROM observations o
+     WHERE o.team_id = $1 AND o.deleted_at IS NULL
+       AND o.created_at >= ${localMidnight('$3')} AND o.created_at < ${localMidnight('$4')}
+       AND ($5::uuid[] IS NULL OR o.skater_id = ANY($5::uuid[]))
+       ${after ? `AND o.created_at >= $6::timestamptz AND (o.created_at, o.id) > ($6::timestamptz, $7::uuid)` : ''}
+     ORDER BY o.created_at, o.id
+     LIMIT ${EXPORT_PAGE}
+  )
   SELECT o.id,
-         to_char(o.created_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"') AS cursor_at,
-         to_char(o.created_at AT TIME ZONE $2, 'YYYY-MM-DD') AS day,
+         o.created_at::text AS cursor_at,
          to_char(o.created_at AT TIME ZONE $2, 'IYYY-"W"IW') AS week,
          to_char(o.created_at AT TIME ZONE $2, 'YYYY-MM-DD"T"HH24:MI:SS') AS local,
          extract(epoch FROM (o.created_at AT TIME ZONE $2) - (o.created_at AT TIME ZONE 'UTC'))::int AS offset_s,
@@ -127,24 +140,19 @@ const observationSql = (after: boolean) => `
          coalesce(nullif(o.author_name, ''), u.display_name, '') AS coach,
          se.title AS session_title, se.day AS session_day,
          o.skater_id, o.cue_id, o.session_id
-    FROM observations o
+    FROM page o
     JOIN skaters s ON s.team_id = o.team_id AND s.id = o.skater_id
     LEFT JOIN skater_groups g ON g.team_id = o.team_id AND g.id = s.group_id
     LEFT JOIN cues c ON c.team_id = o.team_id AND c.id = o.cue_id
     LEFT JOIN sessions se ON se.team_id = o.team_id AND se.id = o.session_id
     LEFT JOIN users u ON u.id = o.created_by
-   WHERE o.team_id = $1 AND o.deleted_at IS NULL
-     AND o.created_at >= ${localMidnight('$3')} AND o.created_at < ${localMidnight('$4')}
-     AND ($5::uuid[] IS NULL OR o.skater_id = ANY($5::uuid[]))
-     ${after ? `AND o.created_at >= $6::timestamptz AND (o.created_at, o.id) > ($6::timestamptz, $7::uuid)` : ''}
-   ORDER BY o.created_at, o.id
-   LIMIT ${EXPORT_PAGE}`;
+   ORDER BY o.created_at, o.id`;
 
 const markWord = (mark: string) => (mark === 'good' ? 'good' : 'needs work');
 
 function observationRecord(r: ObservationRow): unknown[] {
   return [
-    r.day,
+    r.local.slice(0, 10),
     r.week,
     `${r.local}${offsetText(r.offset_s)}`,
     textCell(r.skater),
@@ -205,8 +213,8 @@ export const runColumns = [
 
 interface RunRow {
   id: string;
+  /** created_at / started_at as PostgreSQL writes it (with its offset): the next page's start. */
   cursor_at: string;
-  day: string;
   week: string;
   local: string;
   offset_s: number;
@@ -225,11 +233,19 @@ interface RunRow {
   crossings: number[] | null;
 }
 
-/** $1 team, $2 zone, $3 first day, $4 the day after the last, $5 skater ids or null, [$6 $7 the keyset]. */
+/** The same for runs, over ix_runs_review_started (the page first, then its names and crossings). */
 const runSql = (after: boolean) => `
+  WITH page AS MATERIALIZED (
+    SELECT r.* FROM runs r
+     WHERE r.team_id = $1 AND r.deleted_at IS NULL
+       AND r.started_at >= ${localMidnight('$3')} AND r.started_at < ${localMidnight('$4')}
+       AND ($5::uuid[] IS NULL OR r.skater_id = ANY($5::uuid[]))
+       ${after ? `AND r.started_at >= $6::timestamptz AND (r.started_at, r.id) > ($6::timestamptz, $7::uuid)` : ''}
+     ORDER BY r.started_at, r.id
+     LIMIT ${EXPORT_PAGE}
+  )
   SELECT r.id,
-         to_char(r.started_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.US"Z"') AS cursor_at,
-         to_char(r.started_at AT TIME ZONE $2, 'YYYY-MM-DD') AS day,
+         r.started_at::text AS cursor_at,
          to_char(r.started_at AT TIME ZONE $2, 'IYYY-"W"IW') AS week,
          to_char(r.started_at AT TIME ZONE $2, 'YYYY-MM-DD"T"HH24:MI:SS') AS local,
          extract(epoch FROM (r.started_at AT TIME ZONE $2) - (r.started_at AT TIME ZONE 'UTC'))::int AS offset_s,
@@ -239,16 +255,11 @@ const runSql = (after: boolean) => `
          r.heat_id, r.skater_id,
          (SELECT array_agg(x.at_ms ORDER BY x.at_ms) FROM crossings x
            WHERE x.team_id = r.team_id AND x.run_id = r.id AND x.deleted_at IS NULL) AS crossings
-    FROM runs r
+    FROM page r
     JOIN skaters s ON s.team_id = r.team_id AND s.id = r.skater_id
     LEFT JOIN skater_groups g ON g.team_id = r.team_id AND g.id = s.group_id
     LEFT JOIN users u ON u.id = r.created_by
-   WHERE r.team_id = $1 AND r.deleted_at IS NULL
-     AND r.started_at >= ${localMidnight('$3')} AND r.started_at < ${localMidnight('$4')}
-     AND ($5::uuid[] IS NULL OR r.skater_id = ANY($5::uuid[]))
-     ${after ? `AND r.started_at >= $6::timestamptz AND (r.started_at, r.id) > ($6::timestamptz, $7::uuid)` : ''}
-   ORDER BY r.started_at, r.id
-   LIMIT ${EXPORT_PAGE}`;
+   ORDER BY r.started_at, r.id`;
 
 export interface RunFigures {
   finishMs: number | null;
@@ -281,7 +292,7 @@ function runRecord(r: RunRow): unknown[] {
   // A number column: seconds with three decimals, negative when faster than the target.
   const gap = finishMs !== null && r.target_ms !== null ? Math.round(finishMs - r.target_ms) / 1000 : null;
   return [
-    r.day,
+    r.local.slice(0, 10),
     r.week,
     `${r.local}${offsetText(r.offset_s)}`,
     textCell(r.skater),
@@ -402,7 +413,7 @@ export async function weeklySheet(
       params,
     );
 
-  const runs: (Omit<RunRow, 'cursor_at' | 'week' | 'local' | 'offset_s' | 'skater' | 'group_name' | 'lane' | 'stop_reason' | 'note' | 'timed_by' | 'heat_id' | 'skater_id'> & { time: string })[] =
+  const runs: (Omit<RunRow, 'cursor_at' | 'week' | 'local' | 'offset_s' | 'skater' | 'group_name' | 'lane' | 'stop_reason' | 'note' | 'timed_by' | 'heat_id' | 'skater_id'> & { day: string; time: string })[] =
     await dataSource.query(
       `SELECT r.id,
               to_char(r.started_at AT TIME ZONE $2, 'YYYY-MM-DD') AS day,
