@@ -20,7 +20,7 @@ import { requireTeamRole, requireUser } from '../lib/auth';
 import { notFound, parse } from '../lib/errors';
 import { logger } from '../lib/logger';
 import { assertSkaterVisible, teamTimeZone, viewerOf } from '../services/review/access';
-import { assertSkatersInTeam, csvWriter, exportColumns, exportRecords, weeklySheet } from '../services/review/export';
+import { assertSkatersInTeam, coalesce, csvWriter, exportColumns, exportRecords, weeklySheet } from '../services/review/export';
 
 function skaterIdOf(req: Request): string {
   const id = z.uuid().safeParse(req.params.skaterId);
@@ -49,7 +49,7 @@ export function exportRoutes(dataSource: DataSource) {
     res.setHeader('Content-Disposition', `attachment; filename="boardside-${query.kind}-${query.from}-${query.to}.csv"`);
     res.setHeader('X-Content-Type-Options', 'nosniff');
     try {
-      await pipeline(records, csvWriter(exportColumns(query.kind)), res);
+      await pipeline(records, csvWriter(exportColumns(query.kind)), coalesce(), res);
     } catch (error) {
       // The first page was read above; a later failure can only cut the file off (pipeline
       // destroyed the response), which the browser reports as a failed download.
