@@ -12,5 +12,6 @@ import { NoteMoves1764771000000 } from './1764771000000-note-moves';
 import { ReviewExport1764775000000 } from './1764775000000-review-export';
 import { ReviewExportNotes1764776000000 } from './1764776000000-review-export-notes';
 import { ReviewWeekCounts1764785000000 } from './1764785000000-review-week-counts';
+import { ReviewGroupWeekCounts1764786000000 } from './1764786000000-review-group-week-counts';
 
-export const migrations = [Foundation1764650000000, CueLibrary1764660000000, Sync1764670000000, SyncTables1764700000000, TokenFamilies1764720000000, NoteAuthors1764730000000, SquadManagement1764740000000, Clock1764750000000, Review1764760000000, NoteMoves1764771000000, ReviewExport1764775000000, ReviewExportNotes1764776000000, ReviewWeekCounts1764785000000];
+export const migrations = [Foundation1764650000000, CueLibrary1764660000000, Sync1764670000000, SyncTables1764700000000, TokenFamilies1764720000000, NoteAuthors1764730000000, SquadManagement1764740000000, Clock1764750000000, Review1764760000000, NoteMoves1764771000000, ReviewExport1764775000000, ReviewExportNotes1764776000000, ReviewWeekCounts1764785000000, ReviewGroupWeekCounts1764786000000];

@@ -3,7 +3,8 @@
  * themselves: after every kind of write (a push of new notes, mark edits and deletes through
  * sync; notes moved to another skater, cue or instant, hard deletes, a tombstone brought back and
  * one statement touching two teams, straight in SQL as any other writer would; a change of the
- * team's zone) the kept counts equal a fresh count of the live notes by
+ * team's zone; skaters moved between groups, retired, brought back, deleted) the kept counts, per
+ * skater and per group of live skaters, equal a fresh count of the live notes by
  * to_char(created_at AT TIME ZONE zone, 'IYYY-"W"IW'), row for row, no 0 / 0 row left behind;
  * and the group matrix route answers what that fresh count says.
  */
@@ -46,6 +47,34 @@ async function differences(teamId: string): Promise<unknown[]> {
   );
 }
 
+/** The same for the counts kept per group of live skaters (observation_group_week_counts). */
+async function groupDifferences(teamId: string): Promise<unknown[]> {
+  return server.dataSource.query(
+    `WITH fresh AS (
+       SELECT coalesce(s.group_id, '00000000-0000-0000-0000-000000000000'::uuid) AS group_key, o.cue_id,
+              to_char(o.created_at AT TIME ZONE t.time_zone, 'IYYY-"W"IW') AS week,
+              count(*) FILTER (WHERE o.mark = 'needs_work')::int AS needs_work, count(*) FILTER (WHERE o.mark = 'good')::int AS good
+         FROM observations o JOIN teams t ON t.id = o.team_id JOIN skaters s ON s.team_id = o.team_id AND s.id = o.skater_id
+        WHERE o.team_id = $1 AND o.deleted_at IS NULL AND s.deleted_at IS NULL AND s.retired_at IS NULL
+        GROUP BY 1, 2, 3
+     ),
+     kept AS (
+       SELECT group_key, cue_id, to_char(week_start, 'IYYY-"W"IW') AS week, needs_work, good
+         FROM observation_group_week_counts WHERE team_id = $1
+     )
+     (SELECT 'kept only' AS side, * FROM (SELECT * FROM kept EXCEPT ALL SELECT * FROM fresh) a)
+     UNION ALL
+     (SELECT 'fresh only', * FROM (SELECT * FROM fresh EXCEPT ALL SELECT * FROM kept) b)`,
+    [teamId],
+  );
+}
+
+/** Both kept tables against the notes. */
+async function agree(teamId: string) {
+  expect(await differences(teamId)).toEqual([]);
+  expect(await groupDifferences(teamId)).toEqual([]);
+}
+
 async function keptRows(teamId: string): Promise<number> {
   const [{ n }]: { n: number }[] = await server.dataSource.query(`SELECT count(*)::int AS n FROM observation_week_counts WHERE team_id = $1`, [teamId]);
   return n;
@@ -73,32 +102,32 @@ describe('the kept week counts', () => {
     }
     ids = await pushNotes(server.app, team, team.headDevice, notes);
     expect(await keptRows(team.teamId)).toBeGreaterThan(0);
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
 
     // Marks changed on a few notes, others deleted (tombstones), in one push each.
     await pushOk(server.app, team.headDevice, team.teamId, ids.slice(0, 6).map((id) => upsert(team.headDevice, 'observations', id, { mark: 'good' })));
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
     await deleteNotes(server.app, team, team.headDevice, ids.slice(6, 12));
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
   });
 
   it('follow notes moved, re-timed, hard-deleted and brought back by any other writer', async () => {
     const db = server.dataSource;
     const exit = cueOf(team, 'exit').id;
     await db.query(`UPDATE observations SET skater_id = $3 WHERE team_id = $1 AND id = ANY($2::uuid[])`, [team.teamId, ids.slice(12, 16), team.skaterB.id]);
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
     await db.query(`UPDATE observations SET cue_id = $3 WHERE team_id = $1 AND id = ANY($2::uuid[])`, [team.teamId, ids.slice(16, 20), exit]);
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
     // One minute earlier: the Monday 00:00 notes fall back into the week before.
     await db.query(`UPDATE observations SET created_at = created_at - interval '1 minute' WHERE team_id = $1 AND id = ANY($2::uuid[])`, [team.teamId, ids.slice(20, 30)]);
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
     await db.query(`DELETE FROM observations WHERE team_id = $1 AND id = ANY($2::uuid[])`, [team.teamId, ids.slice(30, 33)]);
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
     await db.query(`UPDATE observations SET deleted_at = NULL, deleted_hlc = NULL WHERE team_id = $1 AND id = ANY($2::uuid[])`, [team.teamId, ids.slice(6, 9)]);
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
     // Every note of a cell deleted: its row goes rather than stay at 0 / 0.
     await db.query(`UPDATE observations SET deleted_at = now() WHERE team_id = $1 AND cue_id = $2`, [team.teamId, exit]);
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
     const [{ empty }]: { empty: number }[] = await db.query(
       `SELECT count(*)::int AS empty FROM observation_week_counts WHERE team_id = $1 AND (cue_id = $2 OR (needs_work = 0 AND good = 0))`,
       [team.teamId, exit],
@@ -116,15 +145,45 @@ describe('the kept week counts', () => {
         WHERE (team_id = $1 AND id = ANY($2::uuid[])) OR (team_id = $3 AND id = ANY($4::uuid[]))`,
       [team.teamId, ids.slice(0, 3), other.teamId, otherIds],
     );
-    expect(await differences(team.teamId)).toEqual([]);
-    expect(await differences(other.teamId)).toEqual([]);
+    await agree(team.teamId);
+    await agree(other.teamId);
 
     const before = await keptRows(team.teamId);
     await request(server.app).patch(`/api/teams/${team.teamId}/settings`).set(team.head.auth).send({ timeZone: 'Pacific/Auckland' }).expect(200);
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
     await request(server.app).patch(`/api/teams/${team.teamId}/settings`).set(team.head.auth).send({ timeZone: 'Europe/Amsterdam' }).expect(200);
-    expect(await differences(team.teamId)).toEqual([]);
+    await agree(team.teamId);
     expect(await keptRows(team.teamId)).toBe(before);
+  });
+
+  it('follow skaters moved between groups, retired, brought back and deleted', async () => {
+    const settings = (path: string) => request(server.app).patch(`/api/teams/${team.teamId}/${path}`).set(team.head.auth);
+    const group = await request(server.app).post(`/api/teams/${team.teamId}/groups`).set(team.head.auth).send({ name: 'Juniors' }).expect(201);
+    await settings(`skaters/${team.skaterA.id}`).send({ groupId: group.body.id }).expect(200);
+    await agree(team.teamId);
+    await settings(`skaters/${team.skaterB.id}`).send({ groupId: group.body.id }).expect(200);
+    await agree(team.teamId);
+    await settings(`skaters/${team.skaterA.id}`).send({ retired: true }).expect(200);
+    await agree(team.teamId);
+    // A note of a retired skater counts in no group; changed meanwhile, it counts when they are back.
+    await server.dataSource.query(`UPDATE observations SET mark = 'good' WHERE team_id = $1 AND skater_id = $2`, [team.teamId, team.skaterA.id]);
+    await agree(team.teamId);
+    await settings(`skaters/${team.skaterA.id}`).send({ retired: false, groupId: null }).expect(200);
+    await agree(team.teamId);
+    await server.dataSource.query(`UPDATE skaters SET deleted_at = now() WHERE team_id = $1 AND id = $2`, [team.teamId, team.skaterB.id]);
+    await agree(team.teamId);
+    await server.dataSource.query(`UPDATE skaters SET deleted_at = NULL WHERE team_id = $1 AND id = $2`, [team.teamId, team.skaterB.id]);
+    await agree(team.teamId);
+    const none = await review(server.app, team.head, team.teamId, 'groups/none/weeks', { from: '2025-W52', to: '2026-W06' }).expect(200);
+    const inGroup = await review(server.app, team.head, team.teamId, `groups/${group.body.id}/weeks`, { from: '2025-W52', to: '2026-W06' }).expect(200);
+    const marks = (m: ReviewMatrix) => m.rows.reduce((n, row) => n + row.totalNeedsWork + row.totalGood, 0);
+    const [{ a, b }]: { a: number; b: number }[] = await server.dataSource.query(
+      `SELECT count(*) FILTER (WHERE skater_id = $2)::int AS a, count(*) FILTER (WHERE skater_id = $3)::int AS b
+         FROM observations WHERE team_id = $1 AND deleted_at IS NULL`,
+      [team.teamId, team.skaterA.id, team.skaterB.id],
+    );
+    expect(marks(none.body as ReviewMatrix)).toBe(a);
+    expect(marks(inGroup.body as ReviewMatrix)).toBe(b);
   });
 
   it('the group matrix answers the fresh count of the notes', async () => {

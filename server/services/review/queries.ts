@@ -1,12 +1,13 @@
 /**
  * The review's counts, each view one SQL statement that groups in PostgreSQL (no counting of
- * single notes here). The matrices and the one-week grid sum observation_week_counts: the live
- * notes counted per team, local Monday, skater and cue, kept exact by triggers on observations
- * and recounted when the team's zone changes (migration 1764785000000-review-week-counts.ts). A
- * week's Monday is date_trunc('week', created_at AT TIME ZONE zone), so its label
+ * single notes here). A skater's matrix and the one-week grid sum observation_week_counts (the
+ * live notes counted per team, local Monday, skater and cue, kept exact by triggers on
+ * observations and recounted when the team's zone changes: migration 1764785000000); a group's
+ * matrix sums observation_group_week_counts (the same per group of live skaters, kept from it:
+ * 1764786000000), so a group's year is about 1,600 rows instead of 500,000 notes each turned into
+ * a local week. A week's Monday is date_trunc('week', created_at AT TIME ZONE zone), so its label
  * to_char(monday, 'IYYY-"W"IW') is the note's own ISO week, and a range of weeks is a range of
- * Mondays [Monday of `from`, Monday after `to`): a group's year is about 60,000 count rows instead
- * of 500,000 notes each turned into a local week. A cell's notes are read from observations over
+ * Mondays [Monday of `from`, Monday after `to`). A cell's notes are read from observations over
  * ix_observations_review_skater, the range [Monday of `from`, Monday after `to`) at local midnight.
  * Deleted notes (tombstones, deleted_at set) never count; notes of a deleted cue are left out
  * with it (archived cues stay, flagged). Every statement is bounded by the caller's team; lists
@@ -44,16 +45,16 @@ interface MatrixRow {
 }
 
 /**
- * $1 team, $2 skater id or group id, $3 first Monday, $4 Monday after the range, $5 the phases in
- * display order. `who` selects the counts' skaters. The counts are kept in the team's zone, which
- * the statement needs no more.
+ * $1 team, $2 skater id or group key, $3 first Monday, $4 Monday after the range, $5 the phases in
+ * display order. `counts` is the kept table read (a skater's or a group's), `who` selects its rows.
+ * The counts are kept in the team's zone, which the statement needs no more.
  */
-const matrixSql = (who: string) => `
+const matrixSql = (counts: string, who: string) => `
   WITH cells AS MATERIALIZED (
     SELECT w.cue_id, w.week_start,
            sum(w.needs_work)::int AS needs_work,
            sum(w.good)::int AS good
-      FROM observation_week_counts w
+      FROM ${counts} w
      WHERE w.team_id = $1 AND w.week_start >= $3::date AND w.week_start < $4::date
        AND ${who}
      GROUP BY 1, 2
@@ -91,7 +92,7 @@ function toMatrix(rows: MatrixRow[], range: WeekRange, timeZone: string): Review
 
 /** One skater's cues x weeks (the caller has checked the viewer may see this skater). */
 export async function skaterMatrix(dataSource: DataSource, teamId: string, timeZone: string, skaterId: string, range: WeekRange) {
-  const rows: MatrixRow[] = await dataSource.query(matrixSql(`w.skater_id = $2::uuid`), [
+  const rows: MatrixRow[] = await dataSource.query(matrixSql('observation_week_counts', `w.skater_id = $2::uuid`), [
     teamId,
     skaterId,
     range.startDay,
@@ -101,12 +102,19 @@ export async function skaterMatrix(dataSource: DataSource, teamId: string, timeZ
   return toMatrix(rows, range, timeZone);
 }
 
-/** The same matrix summed over a group's live skaters ('all': the team; 'none': skaters in no group). */
+/** observation_group_week_counts' key for the skaters in no group (migration 1764786000000). */
+const NO_GROUP = '00000000-0000-0000-0000-000000000000';
+
+/**
+ * The same matrix summed over a group's live skaters ('all': the team; 'none': skaters in no
+ * group), from the counts kept per group of live skaters (observation_group_week_counts): the
+ * whole team is the sum over its groups.
+ */
 export async function groupMatrix(dataSource: DataSource, teamId: string, timeZone: string, group: ReviewGroup, range: WeekRange) {
-  const members = groupMembers(group);
-  const rows: MatrixRow[] = await dataSource.query(matrixSql(`w.skater_id IN (SELECT id FROM (${members.sql}) m)`), [
+  const who = group === 'all' ? `$2::uuid IS NULL` : `w.group_key = $2::uuid`;
+  const rows: MatrixRow[] = await dataSource.query(matrixSql('observation_group_week_counts', who), [
     teamId,
-    members.param,
+    group === 'all' ? null : group === 'none' ? NO_GROUP : group,
     range.startDay,
     range.endDay,
     phases,
