@@ -207,6 +207,23 @@ describe('export and print', () => {
     expect(getByTestIdWeb('sheet-week').props.value).toBe('2026-W40');
   });
 
+  it('keeps a busy week on one page: at most 10 notes and 10 runs, and says how many are left off', async () => {
+    const busy: WeeklySheet = {
+      ...sheet,
+      notes: Array.from({ length: 13 }, (_, i) => ({ ...sheet.notes[0], id: `0190a0b0-0000-7000-8000-0000000001${String(i).padStart(2, '0')}`, note: `note ${i}` })),
+      runs: Array.from({ length: 11 }, (_, i) => ({ ...sheet.runs[0], id: `0190a0b0-0000-7000-8000-0000000002${String(i).padStart(2, '0')}` })),
+    };
+    fetchMock.mockImplementation(() => Promise.resolve(fakeResponse(200, busy)));
+    renderSection();
+    await tap(`sheet-skater-${ANNA}`);
+    await tap('sheet-open');
+    await shown('weekly-sheet-name');
+    expect(text('weekly-sheet')).toContain('note 9');
+    expect(text('weekly-sheet')).not.toContain('note 10');
+    expect(text('weekly-sheet-more-notes')).toBe('3 more shared notes this week are not on this page (the first 10 are).');
+    expect(text('weekly-sheet-more-runs')).toBe('1 more run this week is not on this page (the first 10 are).');
+  });
+
   it('counts CSV records with quoted line breaks and doubled quotes', () => {
     expect(countCsvRecords(CSV)).toBe(2);
     expect(countCsvRecords('a,b\r\n')).toBe(0);

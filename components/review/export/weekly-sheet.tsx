@@ -61,6 +61,16 @@ function usePrintStyle() {
   }, []);
 }
 
+/**
+ * Most notes and runs a sheet prints: enough for a week's talk, few enough for one page (a week
+ * with more says how many are left off; they are all in the app and the export).
+ */
+export const SHEET_MAX_NOTES = 10;
+export const SHEET_MAX_RUNS = 10;
+
+const leftOff = (n: number, one: string, many: string) =>
+  `${n} more ${n === 1 ? one : many} this week ${n === 1 ? 'is' : 'are'} not on this page`;
+
 const markWord = (mark: 'needs_work' | 'good') => (mark === 'good' ? 'good' : 'needs work');
 const phaseWord = (phase: string | null) => (phase ? phase.charAt(0).toUpperCase() + phase.slice(1) : '');
 
@@ -126,7 +136,7 @@ function SheetBody({ sheet }: { sheet: WeeklySheet }) {
         {sheet.notes.length === 0 ? (
           <Text style={styles.ink}>No notes shared this week.</Text>
         ) : (
-          sheet.notes.map((note) => (
+          sheet.notes.slice(0, SHEET_MAX_NOTES).map((note) => (
             <View key={note.id} style={styles.note} testID={`${SHEET_TEST_ID}-note-${note.id}`}>
               <Text variant="caption" weight="bold" style={styles.ink}>
                 {longDay(note.day)} {note.time} · {note.cueLabel || 'A cue no longer in the library'} · {markWord(note.mark)}
@@ -136,6 +146,11 @@ function SheetBody({ sheet }: { sheet: WeeklySheet }) {
             </View>
           ))
         )}
+        {sheet.notes.length > SHEET_MAX_NOTES ? (
+          <Text variant="caption" style={styles.ink} testID={`${SHEET_TEST_ID}-more-notes`}>
+            {leftOff(sheet.notes.length - SHEET_MAX_NOTES, 'shared note', 'shared notes')} (the first {SHEET_MAX_NOTES} are).
+          </Text>
+        ) : null}
       </View>
 
       <View style={styles.part}>
@@ -160,7 +175,7 @@ function SheetBody({ sheet }: { sheet: WeeklySheet }) {
                 Laps
               </Text>
             </View>
-            {sheet.runs.map((run) => (
+            {sheet.runs.slice(0, SHEET_MAX_RUNS).map((run) => (
               <View role="row" key={run.id} style={styles.row} testID={`${SHEET_TEST_ID}-run-${run.id}`}>
                 <Text role="cell" style={[styles.ink, styles.dayCol]}>
                   {longDay(run.day)} {run.time}
@@ -179,6 +194,11 @@ function SheetBody({ sheet }: { sheet: WeeklySheet }) {
             ))}
           </View>
         )}
+        {sheet.runs.length > SHEET_MAX_RUNS ? (
+          <Text variant="caption" style={styles.ink} testID={`${SHEET_TEST_ID}-more-runs`}>
+            {leftOff(sheet.runs.length - SHEET_MAX_RUNS, 'run', 'runs')} (the first {SHEET_MAX_RUNS} are).
+          </Text>
+        ) : null}
       </View>
       <Text variant="caption" style={styles.ink}>
         Times: hundredths cut off, not rounded. The first lap of a distance that is not whole laps is its opener. Days in {sheet.timeZone}.
