@@ -278,26 +278,26 @@ function SheetPicker({
 export function ExportSection(props: ReviewSectionProps) {
   const [sheet, setSheet] = useState<SheetAsk | null>(null);
   const [last, setLast] = useState<SheetAsk | null>(null);
-  if (sheet) {
-    // The sheet takes the section's whole width, as it will on paper.
-    return <WeeklySheetView teamId={props.teamId} skaterId={sheet.skaterId} week={sheet.week} onClose={() => setSheet(null)} />;
-  }
   return (
-    <View style={[styles.section, props.wide && styles.sectionWide]} testID="export-section">
-      <View style={props.wide ? styles.half : undefined}>
-        <ExportForm {...props} />
+    <>
+      {/* The sheet takes the section's whole width, as it will on paper; the form stays mounted under it (hidden), keeping what was typed. */}
+      {sheet ? <WeeklySheetView teamId={props.teamId} skaterId={sheet.skaterId} week={sheet.week} onClose={() => setSheet(null)} /> : null}
+      <View style={[styles.section, props.wide && styles.sectionWide, sheet && styles.hidden]} testID="export-section">
+        <View style={props.wide ? styles.half : undefined}>
+          <ExportForm {...props} />
+        </View>
+        <View style={props.wide ? styles.half : undefined}>
+          <SheetPicker
+            {...props}
+            last={last}
+            onOpen={(ask) => {
+              setLast(ask);
+              setSheet(ask);
+            }}
+          />
+        </View>
       </View>
-      <View style={props.wide ? styles.half : undefined}>
-        <SheetPicker
-          {...props}
-          last={last}
-          onOpen={(ask) => {
-            setLast(ask);
-            setSheet(ask);
-          }}
-        />
-      </View>
-    </View>
+    </>
   );
 }
 
@@ -310,4 +310,5 @@ const styles = StyleSheet.create({
   field: { flex: 1 },
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: spacing.xs },
   quiet: { alignSelf: 'flex-start' },
+  hidden: { display: 'none' },
 });
