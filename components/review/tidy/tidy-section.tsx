@@ -120,7 +120,7 @@ export function TidySection({ teamId, skaters, wide }: ReviewSectionProps) {
 
   const pane = current ? (
     <Card style={styles.pane} testID="tidy-pane">
-      <Heading level={3} testID="tidy-pane-title">
+      <Heading level={2} testID="tidy-pane-title">
         {`${formatDay(current.day)} · ${sessionName(current)}`}
       </Heading>
       <Text tone="muted" testID="tidy-pane-meta">
