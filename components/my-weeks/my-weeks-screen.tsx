@@ -3,7 +3,8 @@
  * only; a guardian sees the linked skater's. The cue table is the review's WeekMatrix (counts per
  * ISO week in the team's zone, from the server); a cell opens the notes behind it, shared notes
  * only. The runs come from the server too (review/skaters/:id/runs-by-week), so both cover the
- * same weeks. Nothing on this screen changes anything: the buttons move the weeks, open and close
+ * same weeks, and so does "Did it stick?": the cue follow-up (shared/follow-up.ts) at the default
+ * threshold, shown only when a cue was stressed. Nothing on this screen changes anything: the buttons move the weeks, open and close
  * a cell. Wide: the table beside the notes and runs; phone: stacked.
  */
 import { useQuery } from '@tanstack/react-query';
@@ -14,7 +15,9 @@ import { Pressable, StyleSheet, View } from 'react-native';
 import { weekOf } from '../../shared/weeks';
 import { useConnectivity } from '../../store/connectivity';
 import { skaterWeeksQuery, type WeekRangeAsked } from '../../store/review';
-import { runsByWeekQuery } from '../../store/review-follow-up';
+import { followUpQuery, runsByWeekQuery } from '../../store/review-follow-up';
+import { DEFAULT_STRESS_THRESHOLD, FOLLOW_UP_RULE } from '../../shared/follow-up';
+import { FollowUpItemCard, itemKey } from '../review/follow-up/follow-up-item';
 import { useActiveMembership } from '../../store/session';
 import { useSkaterName } from '../../store/today';
 import { Banner, Button, Card, Heading, Screen, Text, colors, fonts, spacing, tapTarget, type, useBreakpoint } from '../ui';
@@ -58,6 +61,8 @@ export function MyWeeksScreen() {
 
   const weeks = useQuery({ ...skaterWeeksQuery(teamId, skaterId, range), enabled: !!teamId && !!skaterId });
   const runs = useQuery({ ...runsByWeekQuery(teamId, skaterId, range), enabled: !!teamId && !!skaterId });
+  // The cues stressed in these weeks (3 or more "needs work" in a week) and what followed.
+  const followUp = useQuery({ ...followUpQuery(teamId, skaterId, DEFAULT_STRESS_THRESHOLD, range), enabled: !!teamId && !!skaterId });
   const matrix = weeks.data;
   const zone = matrix?.timeZone ?? 'UTC';
   const currentWeek = weekOf(Date.now(), zone);
@@ -97,7 +102,7 @@ export function MyWeeksScreen() {
     );
 
   const table = (
-    <Card testID="my-weeks-cues" style={wide ? styles.mainWide : undefined}>
+    <Card testID="my-weeks-cues">
       <Heading level={2}>Cues by week</Heading>
       <ReviewLegend />
       {matrix ? (
@@ -151,6 +156,25 @@ export function MyWeeksScreen() {
     </Card>
   );
 
+  const followUpCard = followUp.data && followUp.data.items.length > 0 ? (
+    <Card testID="my-weeks-follow-up">
+      <Heading level={2}>Did it stick?</Heading>
+      <Text tone="muted">
+        {`Cues marked \u201Cneeds work\u201D ${DEFAULT_STRESS_THRESHOLD} or more times in one week, and how the four weeks after went.`}
+      </Text>
+      <View role="list" aria-label="Cues that needed work, and after" style={styles.stack}>
+        {followUp.data.items.map((item) => (
+          <View role="listitem" key={itemKey(item)}>
+            <FollowUpItemCard item={item} basis={followUp.data.lapBasis} compact={!wide} />
+          </View>
+        ))}
+      </View>
+      <Text variant="caption" tone="muted">
+        {FOLLOW_UP_RULE}
+      </Text>
+    </Card>
+  ) : null;
+
   const notes = cell ? <SharedNotes teamId={teamId} cell={cell} onClose={() => setCell(null)} /> : null;
 
   return (
@@ -158,7 +182,10 @@ export function MyWeeksScreen() {
       {top}
       {wide ? (
         <View style={styles.panes}>
-          {table}
+          <View style={styles.mainWide}>
+            {table}
+            {followUpCard}
+          </View>
           <View style={styles.side}>
             {notes}
             {runList}
@@ -168,6 +195,7 @@ export function MyWeeksScreen() {
         <>
           {table}
           {notes}
+          {followUpCard}
           {runList}
         </>
       )}
@@ -178,7 +206,7 @@ export function MyWeeksScreen() {
 const styles = StyleSheet.create({
   stack: { gap: spacing.sm },
   panes: { flexDirection: 'row', alignItems: 'flex-start', gap: spacing.lg },
-  mainWide: { flex: 1, minWidth: 0 },
+  mainWide: { flex: 1, minWidth: 0, gap: spacing.lg },
   side: { width: 440, gap: spacing.lg },
   // Looks like the kit's TextLink (underlined, bold, 48 px tall), which only takes an href.
   back: { minHeight: tapTarget, justifyContent: 'center', alignSelf: 'flex-start' },

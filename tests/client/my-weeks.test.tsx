@@ -11,7 +11,7 @@ import { SafeAreaProvider } from 'react-native-safe-area-context';
 
 import { MyWeeksScreen } from '../../components/my-weeks/my-weeks-screen';
 import type { ReviewCell, ReviewMatrix } from '../../shared/schemas/review';
-import type { RunsByWeekReply } from '../../shared/schemas/review-follow-up';
+import type { FollowUpReply, RunsByWeekReply } from '../../shared/schemas/review-follow-up';
 import { addIsoWeeks, weekOf, weeksBetween } from '../../shared/weeks';
 import { fakeResponse } from './fake-fetch';
 import { fireWeb, getByTestIdWeb, queryByTestIdWeb, textOf } from './web-queries';
@@ -58,6 +58,17 @@ const runs: RunsByWeekReply = {
   }],
 };
 
+const noLaps = { runs: 0, laps: 0, meanLapMs: null };
+const followUp: FollowUpReply = {
+  timeZone: 'UTC', from: FROM, to: NOW, threshold: 3, currentWeek: NOW, lapBasis: null,
+  items: [{
+    cueId: SIT, phase: 'start', label: 'Sit lower', archived: false, week: W[2], needsWork: 3, good: 0, laps: noLaps,
+    after: [3, 4, 5, 6].map((i) => ({ week: W[i], needsWork: 0, good: i === 5 ? 1 : 0, counted: true, laps: noLaps })),
+    afterLaps: noLaps, lapChangeMs: null,
+    verdict: 'not enough data', stressedGood: 0, stressedMarks: 3, afterGood: 1, afterMarks: 1, weeksCounted: 4, changePoints: 100,
+  }],
+};
+
 const fetchMock = jest.fn();
 const paths = () => fetchMock.mock.calls.map(([u]) => new URL(String(u), 'http://x').pathname);
 
@@ -68,6 +79,7 @@ beforeEach(() => {
     const path = new URL(url, 'http://x').pathname;
     if (path.endsWith('/weeks')) return Promise.resolve(fakeResponse(200, matrix));
     if (path.endsWith('/runs-by-week')) return Promise.resolve(fakeResponse(200, runs));
+    if (path.endsWith('/follow-up')) return Promise.resolve(fakeResponse(200, followUp));
     if (path.endsWith('/cells')) return Promise.resolve(fakeResponse(200, cell));
     return Promise.resolve(fakeResponse(404, { error: { code: 'not_found', message: 'no route' } }));
   });
@@ -104,6 +116,12 @@ describe('my weeks', () => {
     expect(text(`my-weeks-run-${RUN}-finish`)).toBe('Finished in 1:51.45');
     expect(text(`my-weeks-run-${RUN}-laps`)).toBe('Laps: Opener 25.31 · Lap 1 28.71 · Lap 2 28.88 · Finish 28.55');
     expect(text(`my-weeks-runs-${W[6]}`)).toMatch(/\(1 run\)/);
+    // "Did it stick?": the own follow-up at the default threshold, the verdict with its counts.
+    await shown(`follow-up-item-${SIT}-${W[2]}-verdict`);
+    expect(paths()).toContain(`/api/teams/${TEAM}/review/skaters/${OWN}/follow-up`);
+    expect(text(`follow-up-item-${SIT}-${W[2]}-verdict`)).toBe(
+      '\u2013 Not enough data1 good of 1 mark in the next 4 weeks (100 %); 3 marks are needed for a verdict.',
+    );
   });
 
   it('a cell shows only the shared note with words; the private one is counted, not an empty row', async () => {
