@@ -7,7 +7,8 @@
  * - The coach opens Evening > Follow-up, picks Anna and reads the verdict with its counts at
  *   1440 px and 390 px (every target >= 48 px at 390).
  * - Anna (skater) opens My weeks from her today page, opens the stressed week's cell and reads the
- *   shared note, never the private one; her runs show their finish time; back to today.
+ *   shared note, never the private one; her runs show their finish time; "Did it stick?" shows the
+ *   same verdict and counts as the coach's; back to today.
  * - Anna's guardian sees the same, told it is read only, with no button that changes anything.
  * axe at both widths on each screen; screenshots review-follow-up, my-weeks-skater, my-weeks-guardian.
  */
@@ -128,6 +129,10 @@ async function readMyWeeks(page: Page, heading: string, cueId: string, stressedW
   // The runs: the stressed week's 1500 m with its finish time and laps.
   await expect(page.getByTestId('my-weeks-runs')).toContainText('Finished in 1:51.45');
   await expect(page.getByTestId('my-weeks-runs')).toContainText('Laps: Opener 25.31 · Lap 1 28.71 · Lap 2 28.88 · Finish 28.55');
+  // "Did it stick?": the same verdict the coach reads, with its counts.
+  await expect(page.getByTestId(`follow-up-item-${cueId}-${stressedWeek}-verdict`)).toHaveText(
+    '\u2193 Fading4 good of 5 marks in the next 4 weeks (80 %), against 1/4 (25 %) in the stressed week, +55 points.',
+  );
 }
 
 test('a coach reads a stressed cue’s follow-up; the skater and the guardian read their weeks, shared notes only', async ({ browser }) => {
