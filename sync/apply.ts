@@ -14,12 +14,15 @@
  * - A tombstone deletes the row and every outbox entry for it (delete wins) - a queued edit must
  *   not bring the record back.
  * - An eviction (the caller may no longer see the record) deletes the row; the caller's own queued
- *   changes stay in the outbox for the server to judge, and show up as rejected if refused.
+ *   changes stay in the outbox for the server to judge, and show up as rejected if refused, but
+ *   for those only the record's skater makes (an acknowledgement of a note moved to another
+ *   skater): they go with the row.
  * - The last page of a full re-sync also sweeps the rows the re-sync did not confirm.
  */
 import type { Change, PullReply, PullTable } from '../shared/schemas/sync';
 import type { SqlDriver, SqlValue } from './driver';
 import { encodeFields, isPullTable, PULL_TABLES } from './fields';
+import { fieldSpec } from '../shared/sync-tables';
 import { readShadow, writeShadow } from './shadow';
 import type { DeviceStore, SyncKeys } from './store';
 import { hidesDeleted } from './outbox';
@@ -103,6 +106,27 @@ async function upsertMaskedRow(db: SqlDriver, table: PullTable, teamId: string, 
   if (Object.keys(hidden).length > 0) {
     await writeShadow(db, table, row.id, { ...(await readShadow(db, table, row.id)), ...hidden });
   }
+}
+
+/**
+ * A record evicted from this device (a note moved to another skater) takes along the signed-in
+ * user's own changes to it that only the record's skater could make (an acknowledgement, waiting
+ * or already refused): they were about a note that is no longer theirs, and would otherwise stay
+ * as a refused change the skater cannot fix. Any other change stays for the server to judge.
+ */
+async function dropMootOwnChanges(db: SqlDriver, evictions: readonly { table: PullTable; id: string }[], mine: OwnerFilter) {
+  if (evictions.length === 0) return;
+  const rows = await db.all<{ seq: number; tbl: string; fields: string }>(
+    `SELECT seq, tbl, fields FROM outbox WHERE record_id IN (SELECT value FROM json_each(?))${mine.sql}`,
+    [json(evictions.map((e) => e.id)), ...mine.params],
+  );
+  const evicted = new Set(evictions.map((e) => e.table as string));
+  const moot = rows.filter((r) => {
+    if (!evicted.has(r.tbl) || !isPullTable(r.tbl)) return false;
+    const names = Object.keys(JSON.parse(r.fields) as Record<string, unknown>);
+    return names.length > 0 && names.every((name) => fieldSpec(r.tbl as PullTable, name)?.writer === 'own_skater');
+  });
+  if (moot.length > 0) await db.run(`DELETE FROM outbox WHERE seq IN (SELECT value FROM json_each(?))`, [json(moot.map((r) => r.seq))]);
 }
 
 /** Deletes rows; a tombstone (`dropOutbox`) also drops the signed-in user's queued changes on them. */
@@ -197,6 +221,7 @@ export async function applyPullPage(store: DeviceStore, teamId: string, page: Pu
 
     await deleteRecords(db, page.tombstones, mine);
     await deleteRecords(db, page.evictions, null);
+    await dropMootOwnChanges(db, page.evictions, mine);
 
     await setMeta(db, keys.cursor, String(page.nextCursor));
     if (!page.hasMore) {

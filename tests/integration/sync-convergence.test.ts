@@ -98,9 +98,10 @@ describe('1. convergence', () => {
         expect(result.mismatches).toEqual([]);
         expect(result.viewMismatches).toEqual([]);
         expect(result.leaks).toEqual([]);
-        expect({ pending: result.pendingLeft, rejected: result.rejectedLeft, outboxRows: result.outboxRowsLeft, tombstoneRows: result.tombstoneRowsLeft }).toEqual({
+        expect({ pending: result.pendingLeft, rejected: result.rejectedLeft, reasons: result.rejectedReasons, outboxRows: result.outboxRowsLeft, tombstoneRows: result.tombstoneRowsLeft }).toEqual({
           pending: 0,
           rejected: 0,
+          reasons: [],
           outboxRows: 0,
           tombstoneRows: 0,
         });
@@ -111,7 +112,7 @@ describe('1. convergence', () => {
         expect(result.clock.serverLive).toBe(result.clock.kept);
         // The clock's rarer steps (a tenth of its 14% each) only show up reliably at full size.
         const clockKinds = QUICK ? ['startHeat', 'crossing'] : ['startHeat', 'crossing', 'undoCrossing', 'editCrossing', 'finishRun', 'editRun', 'setTarget'];
-        for (const kind of ['record', 'recordGroup', 'editMark', 'editNote', 'editShared', 'editBoth', 'delete', 'renameCue', 'moveCue', 'editSession', 'acknowledge', ...clockKinds]) {
+        for (const kind of ['record', 'recordGroup', 'editMark', 'editNote', 'editShared', 'editBoth', 'moveNote', 'delete', 'renameCue', 'moveCue', 'editSession', 'acknowledge', ...clockKinds]) {
           expect({ kind, n: result.opsByKind[kind] ?? 0 }).toEqual({ kind, n: expect.any(Number) });
           expect({ kind, done: (result.opsByKind[kind] ?? 0) > 0 }).toEqual({ kind, done: true });
         }

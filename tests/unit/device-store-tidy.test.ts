@@ -218,3 +218,17 @@ describe('merging two sessions of one day', () => {
     expect(list.find((s) => s.id === board.id)!.notes).toHaveLength(1);
   });
 });
+
+describe('a note moved away from a skater\'s device', () => {
+  it('an eviction takes the row and the skater\'s own waiting "got it" along; other changes stay', async () => {
+    const { store, note } = await openStore();
+    await store.acknowledgeObservation(note.id, '0193a000-0000-7000-8000-00000000d0d1', 'skater');
+    const coachEdit = (await store.listOutbox()).filter((o) => o.recordId === note.id && !('acknowledgedAt' in o.fields));
+    expect(coachEdit.length).toBeGreaterThan(0);
+    await applyPullPage(store, TEAM, { ...page([]), evictions: [{ table: 'observations', id: note.id }] });
+    const left = (await store.listOutbox()).filter((o) => o.recordId === note.id);
+    expect(left.some((o) => 'acknowledgedAt' in o.fields)).toBe(false);
+    expect(left.map((o) => o.fields)).toEqual(coachEdit.map((o) => o.fields));
+    expect((await store.listTidySessions(TEAM)).flatMap((s) => s.notes).some((n) => n.id === note.id)).toBe(false);
+  });
+});

@@ -437,10 +437,22 @@ export async function runConvergence(ctx: ConvergenceContext, steps: Step[], opt
         for (const o of made) created.set(o.id, c.index);
         count(group > 1 ? 'recordGroup' : 'record');
       } else if (action < 62) {
-        // Edit the mark (13%), the note (5%), who sees the note (3%) or mark and note (5%) of a note this device shows.
-        const row = await one<{ id: string; mark: string; note_shared: number }>(device, 'id, mark, note_shared', 'observations', 'team_id = ? AND deleted = 0', [teamId], pick);
+        // Edit the mark (13%), the note (5%), who sees the note (3%) or mark and note (2%) of a note
+        // this device shows, or move it to another skater and cue (3%: the evening's tidy-up).
+        const row = await one<{ id: string; mark: string; note_shared: number; skater_id: string }>(device, 'id, mark, note_shared, skater_id', 'observations', 'team_id = ? AND deleted = 0', [teamId], pick);
         if (!row) {
           skipped += 1;
+        } else if (action >= 59) {
+          const skaters = (await store.listSkaters(teamId)).map((s) => s.id).filter((id) => id !== row.skater_id);
+          const cues = (await store.listCues(teamId)).filter((q) => !q.archived);
+          if (skaters.length === 0 || cues.length === 0) throw new StoreError('nothing loaded yet');
+          await store.fixNote(
+            row.id,
+            userId,
+            { skaterId: skaters[(pick >>> 3) % skaters.length], ...(pick & 2 ? { cueId: cues[(pick >>> 5) % cues.length].id } : {}) },
+            person.role === 'head' ? 'head_coach' : 'coach',
+          );
+          count('moveNote');
         } else {
           const flip = row.mark === 'good' ? 'needs_work' : 'good';
           const kind = action < 49 ? 'editMark' : action < 54 ? 'editNote' : action < 57 ? 'editShared' : 'editBoth';
