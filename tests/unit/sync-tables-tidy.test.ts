@@ -1,0 +1,44 @@
+/**
+ * The description's tidy-up parts (shared/sync-tables.ts): a note's session, skater and cue are
+ * editable references (a move keeps the note's id, author and createdAt fixed); a table whose
+ * owner can change names the server column remembering former owners and filters viewers by
+ * owner; a "kept while referenced" rule points at a real reference to the table it protects.
+ */
+import { fieldSpec, syncTableNames, tableSpec } from '../../shared/sync-tables';
+
+describe('tidy-up in the table description', () => {
+  it('lets a note move (session, skater, cue editable references) while its author and createdAt stay fixed', () => {
+    for (const [field, ref] of [['sessionId', 'sessions'], ['skaterId', 'skaters'], ['cueId', 'cues']] as const) {
+      const spec = fieldSpec('observations', field)!;
+      expect({ field, immutable: spec.immutable ?? false, ref: spec.ref, required: spec.required }).toEqual({ field, immutable: false, ref, required: true });
+    }
+    for (const field of ['createdAt', 'createdBy', 'authorName']) expect({ field, immutable: fieldSpec('observations', field)!.immutable }).toEqual({ field, immutable: true });
+  });
+
+  it('a table whose owner moves names its former-owner column and filters viewers by owner', () => {
+    const movable = syncTableNames.filter((t) => tableSpec(t).formerOwnersColumn);
+    expect(movable).toEqual(['observations']);
+    for (const table of movable) {
+      const spec = tableSpec(table);
+      expect(spec.ownerField).toBeDefined();
+      expect(fieldSpec(table, spec.ownerField!)!.immutable ?? false).toBe(false);
+      expect(spec.viewerRows).not.toBe('team');
+      // Never a field: the list of former owners is not pulled or pushed.
+      expect(Object.values(spec.fields).map((f) => f.column)).not.toContain(spec.formerOwnersColumn);
+    }
+    // Tables whose owner may not move keep it fixed (a run or a target does not change skater).
+    for (const table of syncTableNames.filter((t) => tableSpec(t).ownerField && !tableSpec(t).formerOwnersColumn)) {
+      expect({ table, immutable: fieldSpec(table, tableSpec(table).ownerField!)!.immutable }).toEqual({ table, immutable: true });
+    }
+  });
+
+  it('a session is kept while notes point at it, through a real reference, and is deleted as a tombstone', () => {
+    for (const table of syncTableNames) {
+      const rule = tableSpec(table).keptWhileReferenced;
+      if (!rule) continue;
+      expect(fieldSpec(rule.table, rule.field)?.ref).toBe(table);
+      expect(tableSpec(table).deletes).toBe('tombstone');
+    }
+    expect(tableSpec('sessions').keptWhileReferenced).toEqual({ table: 'observations', field: 'sessionId' });
+  });
+});
