@@ -26,7 +26,7 @@ const dayOf = (name: string) =>
   z
     .string({ error: `${name} must be a day like 2026-03-01 (YYYY-MM-DD)` })
     .regex(/^\d{4}-\d{2}-\d{2}$/, `${name} must be a day like 2026-03-01 (YYYY-MM-DD)`)
-    .refine((v) => calendarDaySchema.safeParse(v).success, { error: `${name} must be a real day between 2000 and 2100` });
+    .refine((v) => calendarDaySchema.safeParse(v).success, { error: `${name} must be a real day from 2000-01-01 to 2099-12-31` });
 
 /** Days between two checked YYYY-MM-DD days, both included (UTC midnights: no daylight saving). */
 export const daysInRange = (from: string, to: string): number =>

@@ -19,8 +19,9 @@ import type { DataSource } from 'typeorm';
 import { phases, type Phase } from '../../../shared/cues';
 import type { ExportKind, SheetRun, WeeklySheet } from '../../../shared/schemas/review-export';
 import { distanceLayout, formatRaceTime, lapsFromCrossings, type Track } from '../../../shared/timing';
-import { addIsoWeeks, weekStartDay } from '../../../shared/weeks';
+import { weekStartDay } from '../../../shared/weeks';
 import { badRequest } from '../../lib/errors';
+import { weekRange } from './range';
 
 /** Rows per database read. */
 export const EXPORT_PAGE = 5000;
@@ -411,7 +412,8 @@ export async function weeklySheet(
   week: string,
 ): Promise<WeeklySheet> {
   const firstDay = weekStartDay(week);
-  const nextMonday = weekStartDay(addIsoWeeks(week, 1));
+  // The Monday after, by calendar arithmetic: 2100-W52's has no week label (labels stop at 2100).
+  const nextMonday = weekRange(week, week).endDay;
   const lastDay = new Date(Date.parse(`${nextMonday}T00:00:00Z`) - 86_400_000).toISOString().slice(0, 10);
   const params = [teamId, timeZone, firstDay, nextMonday, skaterId];
   const within = (column: string) => `${column} >= ${localMidnight('$3')} AND ${column} < ${localMidnight('$4')}`;

@@ -1,6 +1,7 @@
 /**
  * The weeks a review view covers, and their bounds as local days for SQL. A range asked for with
- * only one end gets the default length (8 weeks) from that end; none at all: the last 8 weeks
+ * only one end gets the default length (8 weeks) from that end, kept within the weeks a label may
+ * name (2000-W01 to 2100's last); none at all: the last 8 weeks
  * ending with the current week in the team's zone (shared/weeks.ts, date-fns).
  */
 import { addDays, format, parseISO } from 'date-fns';
@@ -20,7 +21,7 @@ export interface WeekRange {
 export function resolveRange(query: ReviewRangeQuery, timeZone: string, now = Date.now()): WeekRange {
   let { from, to } = query;
   if (!from && !to) ({ from, to } = defaultWeekRange(timeZone, now));
-  else if (!from) from = addIsoWeeks(to!, -(DEFAULT_REVIEW_WEEKS - 1));
+  else if (!from) from = weeksBefore(to!, DEFAULT_REVIEW_WEEKS - 1);
   else if (!to) to = weeksAfter(from, DEFAULT_REVIEW_WEEKS - 1);
   return weekRange(from!, to!);
 }
@@ -30,6 +31,13 @@ export function weeksAfter(week: string, count: number): string {
   let n = count;
   while (n > 0 && !isIsoWeek(addIsoWeeks(week, n))) n -= 1;
   return addIsoWeeks(week, n);
+}
+
+/** The week `count` weeks before `week`, or the first week a label may name (2000-W01) when that is before it. */
+export function weeksBefore(week: string, count: number): string {
+  let n = count;
+  while (n > 0 && !isIsoWeek(addIsoWeeks(week, -n))) n -= 1;
+  return addIsoWeeks(week, -n);
 }
 
 /** The day after a week's Sunday (calendar arithmetic: no week label past 2100 is needed). */
