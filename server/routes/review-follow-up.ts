@@ -29,7 +29,8 @@ import { resolveRange } from '../services/review/range';
 function skaterIdOf(req: Request): string {
   const id = z.uuid().safeParse(req.params.skaterId);
   if (!id.success) throw notFound('No such skater in this team');
-  return id.data;
+  // Lower case, as the database writes it: a skater's own id in upper case is still their own.
+  return id.data.toLowerCase();
 }
 
 export function followUpRoutes(dataSource: DataSource) {

@@ -22,7 +22,8 @@ import { lapTrend } from '../services/review/laps';
 function skaterIdOf(req: Request): string {
   const id = z.uuid().safeParse(req.params.skaterId);
   if (!id.success) throw notFound('No such skater in this team');
-  return id.data;
+  // Lower case, as the database writes it: a skater's own id in upper case is still their own.
+  return id.data.toLowerCase();
 }
 
 export function lapTrendRoutes(dataSource: DataSource) {

@@ -29,7 +29,9 @@ export type ReviewRangeQuery = z.infer<typeof reviewRangeQuerySchema>;
 const groupMessage = "groupId must be a group's id, 'all' or 'none'";
 export const reviewGroupSchema = z
   .string({ error: groupMessage })
-  .refine((value) => value === 'all' || value === 'none' || z.uuid().safeParse(value).success, { error: groupMessage });
+  .refine((value) => value === 'all' || value === 'none' || z.uuid().safeParse(value).success, { error: groupMessage })
+  // A group's id in lower case, as the database writes it (the reply names the group as stored).
+  .transform((value) => value.toLowerCase());
 export type ReviewGroup = z.infer<typeof reviewGroupSchema>;
 
 /** ?groupId=… for the one-week view (default: the whole team). */

@@ -18,6 +18,7 @@ let server: TestServer;
 let team: ReviewTeam;
 let other: ReviewTeam;
 let otherGroupId: string;
+let ownGroupId: string;
 let retired: Skater;
 let deleted: Skater;
 let removed: Account;
@@ -46,6 +47,7 @@ beforeAll(async () => {
   );
   const group = await request(app).post(`/api/teams/${other.teamId}/groups`).set(other.head.auth).send({ name: 'Juniors' }).expect(201);
   otherGroupId = group.body.id;
+  ownGroupId = (await request(app).post(`/api/teams/${team.teamId}/groups`).set(team.head.auth).send({ name: 'Seniors' }).expect(201)).body.id;
   retired = await addSkater(app, team.head, 'Retired Rijder');
   await request(app).patch(`/api/teams/${team.teamId}/skaters/${retired.id}`).set(team.head.auth).send({ retired: true }).expect(200);
   deleted = await addSkater(app, team.head, 'Deleted Rijder');
@@ -450,6 +452,35 @@ describe('path ids', () => {
     const teamId = which === 'other' ? other.teamId : which;
     const res = await send(team.head, teamId, route.path({ teamId, skaterId: team.skaterA.id }), qs(Object.entries(validQuery(route)).map(([k, v]) => [k, enc(v)])));
     expectError(res, 404, 'not_found');
+  });
+});
+
+describe('ids in upper case are the same ids', () => {
+  const valid = (route: Route) => qs(Object.entries(validQuery(route)).map(([k, v]) => [k, enc(v)]));
+  it.each(routes.filter((r) => !r.coachOnly).map((r) => [r.name, r] as const))('%s: a skater asking for their own id in upper case: 200', async (name, route) => {
+    tally(name);
+    const res = await send(team.skaterAccount, team.teamId, route.path({ teamId: team.teamId, skaterId: team.skaterA.id.toUpperCase() }), valid(route));
+    expect(res.status).toBe(200);
+  });
+  it('laps and the sheet name the skater in lower case, as stored', async () => {
+    tally('laps');
+    tally('sheet');
+    const upper = team.skaterA.id.toUpperCase();
+    const laps = await send(team.head, team.teamId, `skaters/${upper}/laps`, '');
+    expect(laps.status).toBe(200);
+    expect(laps.body.skaterId).toBe(team.skaterA.id);
+    const sheet = await send(team.head, team.teamId, `skaters/${upper}/sheet`, qs([['week', '2026-W40']]));
+    expect(sheet.body.skater.id).toBe(team.skaterA.id);
+  });
+  it('a group id in upper case: the same group, named in lower case', async () => {
+    for (const kind of ['weeks', 'follow-up']) {
+      tally(`group ${kind}`);
+      const res = await send(team.head, team.teamId, `groups/${ownGroupId.toUpperCase()}/${kind}`, '');
+      expect(res.status).toBe(200);
+      if (kind === 'follow-up') expect(res.body.group).toBe(ownGroupId);
+    }
+    tally('one week');
+    expect((await send(team.head, team.teamId, 'week/2026-W40', qs([['groupId', ownGroupId.toUpperCase()]]))).status).toBe(200);
   });
 });
 
