@@ -21,16 +21,27 @@ const LABEL = "RRRR-'W'II";
 const DAY = 'yyyy-MM-dd';
 const shape = /^(\d{4})-W(\d{2})$/;
 
+/**
+ * Labels already parsed: their Monday's time, or null for a label that names no week. Parsing
+ * through the tz companion costs about a millisecond and every review request parses a few
+ * labels; the shape and the years 2000-2100 bound this to 10,100 entries.
+ */
+const parsedLabels = new Map<string, number | null>();
+
 /** The Monday (UTC midnight) of a well-formed label, or undefined when no such week exists. */
 function mondayOf(week: string): TZDate | undefined {
   const match = shape.exec(week);
   if (!match) return undefined;
   const year = Number(match[1]);
   if (year < 2000 || year > 2100) return undefined;
-  const monday = parse(week, LABEL, new TZDate(2000, 0, 1, 'UTC'));
-  // A week past the year's last (2025-W53) parses into the next year: the round trip tells.
-  if (!isValid(monday) || format(monday, LABEL) !== week) return undefined;
-  return monday;
+  let time = parsedLabels.get(week);
+  if (time === undefined) {
+    const monday = parse(week, LABEL, new TZDate(2000, 0, 1, 'UTC'));
+    // A week past the year's last (2025-W53) parses into the next year: the round trip tells.
+    time = !isValid(monday) || format(monday, LABEL) !== week ? null : monday.getTime();
+    parsedLabels.set(week, time);
+  }
+  return time === null ? undefined : new TZDate(time, 'UTC');
 }
 
 /** True for a label of a week that exists ("2026-W53" yes, "2025-W53" no). */
@@ -68,10 +79,21 @@ export const addIsoWeeks = (week: string, count: number): string => format(addWe
 /** How many weeks from `from` to `to` inclusive (0 or less when `to` is before `from`). */
 export const weekSpan = (from: string, to: string): number => differenceInCalendarISOWeeks(monday(to), monday(from)) + 1;
 
+/** Ranges already listed (a year's 52 labels cost about 15 ms through the tz companion), at most 1,000. */
+const listedRanges = new Map<string, readonly string[]>();
+
 /** Every week from `from` to `to` inclusive, in order (empty when `to` is before `from`). */
 export function weeksBetween(from: string, to: string): string[] {
-  const span = weekSpan(from, to);
-  return Array.from({ length: Math.max(0, span) }, (_, i) => addIsoWeeks(from, i));
+  const key = `${from}/${to}`;
+  let weeks = listedRanges.get(key);
+  if (!weeks) {
+    const start = monday(from);
+    const span = differenceInCalendarISOWeeks(monday(to), start) + 1;
+    weeks = Array.from({ length: Math.max(0, span) }, (_, i) => format(addWeeks(start, i), LABEL));
+    if (listedRanges.size >= 1000) listedRanges.clear();
+    listedRanges.set(key, weeks);
+  }
+  return [...weeks];
 }
 
 /** The range the review shows when none is asked for: the last `count` weeks ending with this one. */
