@@ -13,6 +13,8 @@ import { v4 as uuidv4 } from 'uuid';
 import type { Skater } from '../../shared/schemas';
 import { addSkater, expectError, expectNoStack, inviteAndAccept, signUpCoach, startTestServer, type Account, type Coach, type TestServer } from './helpers';
 import { cueOf, makeReviewTeam, pushNotes, type ReviewTeam } from './review-helpers';
+import { pushOk } from './sync-helpers';
+import { crossingCreate, runCreate } from './support/clock-ops';
 
 let server: TestServer;
 let team: ReviewTeam;
@@ -534,6 +536,115 @@ describe('roles', () => {
       expect(res.status).toBe(200);
     }
   });
+});
+
+describe('teams far from UTC at the edges of the years', () => {
+  it.each(['Pacific/Kiritimati', 'Pacific/Pago_Pago', 'America/St_Johns'])('%s: every route at 2000-W01 and 2100-W52 answers 200', async (timeZone) => {
+    const far = await makeReviewTeam(server.app, server.dataSource, `revhosttz${timeZone.length}`, { people: false, timeZone });
+    const farCue = cueOf(far, 'straight').id;
+    // A note on the first Monday the review knows (2000-01-03, noon UTC: that day in all three
+    // zones). Push refuses notes from before the team existed (2020 here), so it is moved there after.
+    const [noteId] = await pushNotes(server.app, far, far.headDevice, [
+      { skaterId: far.skaterA.id, cueId: farCue, mark: 'needs_work', createdAt: '2020-06-01T12:00:00.000Z' },
+    ]);
+    await server.dataSource.query(`UPDATE observations SET created_at = '2000-01-03T12:00:00Z' WHERE id = $1`, [noteId]);
+    const get = (path: string, query: [string, string][] = []) => send(far.head, far.teamId, path, qs(query));
+    const A = far.skaterA.id;
+    const ranges: [string, string][][] = [[['from', '2000-W01'], ['to', '2000-W02']], [['from', '2100-W51'], ['to', '2100-W52']], [['to', '2000-W01']], [['from', '2100-W52']], []];
+    for (const range of ranges) {
+      for (const [name, path] of [
+        ['skater weeks', `skaters/${A}/weeks`],
+        ['group weeks', 'groups/all/weeks'],
+        ['group follow-up', 'groups/none/follow-up'],
+        ['skater follow-up', `skaters/${A}/follow-up`],
+        ['runs by week', `skaters/${A}/runs-by-week`],
+        ['laps', `skaters/${A}/laps`],
+      ]) {
+        tally(name);
+        const res = await get(path, range);
+        expectNoStack(res);
+        expect(res.status).toBe(200);
+        expect(res.body.timeZone).toBe(timeZone);
+      }
+    }
+    const first = await get(`skaters/${A}/weeks`, [['from', '2000-W01'], ['to', '2000-W02']]);
+    expect(first.body.rows[0].counts).toEqual([{ week: '2000-W01', needsWork: 1, good: 0 }]);
+    for (const week of ['2000-W01', '2100-W52']) {
+      for (const [name, path, query] of [
+        ['one week', `week/${week}`, []],
+        ['cell', `skaters/${A}/cells`, [['cueId', farCue], ['week', week]]],
+        ['sheet', `skaters/${A}/sheet`, [['week', week]]],
+      ] as [string, string, [string, string][]][]) {
+        tally(name);
+        const res = await get(path, query);
+        expect(res.status).toBe(200);
+        expect(res.body.week).toBe(week);
+      }
+    }
+    for (const [from, to] of [['2000-01-01', '2000-01-31'], ['2099-12-01', '2099-12-31']]) {
+      tally('export');
+      const res = await get('export.csv', [['kind', 'observations'], ['from', from], ['to', to]]);
+      expect(res.status).toBe(200);
+      expect(res.text.split('\n').filter((l) => l.trim() !== '')).toHaveLength(from === '2000-01-01' ? 2 : 1);
+    }
+  }, 60_000);
+});
+
+describe('odd runs a device may push are read back, not a 500', () => {
+  it('free laps last, a 100 km run, crossings at one instant, at 0 ms and at 24 h, too many and none', async () => {
+    const skater = await addSkater(server.app, team.head, 'Odd Runs');
+    const seeds: { distanceM: number; track?: 'long' | 'short'; status: string; at: string; crossings: number[] }[] = [
+      { distanceM: 1500, status: 'finished', at: '2026-09-29T09:00:00.000Z', crossings: [25_000, 25_000, 80_000, 110_000] },
+      { distanceM: 1500, status: 'finished', at: '2026-09-29T10:00:00.000Z', crossings: [0, 86_400_000] },
+      { distanceM: 500, status: 'finished', at: '2026-09-29T11:00:00.000Z', crossings: Array.from({ length: 300 }, (_, i) => 10_000 + i * 100) },
+      { distanceM: 500, track: 'short', status: 'finished', at: '2026-09-30T09:00:00.000Z', crossings: [] },
+      { distanceM: 100_000, status: 'finished', at: '2026-09-30T10:00:00.000Z', crossings: [30_000, 60_000, 90_000] },
+      { distanceM: 1000, status: 'stopped', at: '2026-09-30T11:00:00.000Z', crossings: [17_000] },
+      { distanceM: 3000, status: 'running', at: '2026-10-01T08:00:00.000Z', crossings: [20_000] },
+      // Free laps last: the laps view without a distance must not pick a distance with no splits.
+      { distanceM: 0, status: 'finished', at: '2026-10-01T09:00:00.000Z', crossings: [30_000, 60_000, 90_000] },
+    ];
+    for (const seed of seeds) {
+      const run = runCreate(team.headDevice, {
+        skaterId: skater.id,
+        distanceM: seed.distanceM,
+        track: seed.track ?? 'long',
+        day: seed.at.slice(0, 10),
+        extra: { startedAt: seed.at, createdAt: seed.at, status: seed.status },
+      });
+      const reply = await pushOk(server.app, team.headDevice, team.teamId, [run, ...seed.crossings.map((atMs) => crossingCreate(team.headDevice, run.recordId, atMs))]);
+      expect(reply.results.filter((r) => r.status !== 'applied')).toEqual([]);
+    }
+    const get = (path: string, query: [string, string][] = []) => send(team.head, team.teamId, `skaters/${skater.id}/${path}`, qs(query));
+    const range: [string, string][] = [['from', '2026-W38'], ['to', '2026-W42']];
+    tally('laps');
+    const latest = await get('laps', range);
+    expectNoStack(latest);
+    expect(latest.status).toBe(200);
+    expect(latest.body.distanceM).not.toBe(0);
+    for (const [distanceM, track, runs] of [['1500', 'long', 2], ['500', 'long', 1], ['500', 'short', 1], ['100000', 'long', 1], ['1000', 'long', 1], ['3000', 'long', 1]] as const) {
+      tally('laps');
+      const res = await get('laps', [...range, ['distanceM', distanceM], ['track', track]]);
+      expectNoStack(res);
+      expect(res.status).toBe(200);
+      expect(res.body.runs).toHaveLength(runs);
+      expect(res.body.runs.every((r: { finishMs: number | null; state: string }) => r.state === 'complete' || r.finishMs === null)).toBe(true);
+    }
+    for (const [name, path, query] of [
+      ['sheet', 'sheet', [['week', '2026-W40']]],
+      ['skater follow-up', 'follow-up', range],
+      ['runs by week', 'runs-by-week', range],
+    ] as [string, string, [string, string][]][]) {
+      tally(name);
+      const res = await get(path, query);
+      expectNoStack(res);
+      expect(res.status).toBe(200);
+    }
+    tally('export');
+    const csv = await send(team.head, team.teamId, 'export.csv', qs([['kind', 'runs'], ['from', '2026-09-28'], ['to', '2026-10-04'], ['skaterIds', skater.id]]));
+    expect(csv.status).toBe(200);
+    expect(csv.text.split('\n').filter((l) => l.trim() !== '')).toHaveLength(seeds.length + 1);
+  }, 60_000);
 });
 
 describe('a team with nothing in it answers empty, not an error', () => {
