@@ -21,6 +21,7 @@ import { notFound, parse } from '../lib/errors';
 import { logger } from '../lib/logger';
 import { assertSkaterVisible, teamTimeZone, viewerOf } from '../services/review/access';
 import { assertSkatersInTeam, coalesce, csvWriter, exportColumns, exportRecords, weeklySheet } from '../services/review/export';
+import { singleValued } from '../services/review/query-string';
 
 function skaterIdOf(req: Request): string {
   const id = z.uuid().safeParse(req.params.skaterId);
@@ -35,7 +36,7 @@ export function exportRoutes(dataSource: DataSource) {
 
   router.get('/teams/:teamId/review/export.csv', requireUser, coach, async (req, res) => {
     const { teamId } = req.membership!;
-    const query = parse(exportQuerySchema, req.query);
+    const query = parse(exportQuerySchema, singleValued(req.query));
     if (query.skaterIds) await assertSkatersInTeam(dataSource, teamId, query.skaterIds);
     const timeZone = await teamTimeZone(dataSource, teamId);
     const records = await exportRecords(dataSource, query.kind, {
@@ -61,7 +62,7 @@ export function exportRoutes(dataSource: DataSource) {
   router.get('/teams/:teamId/review/skaters/:skaterId/sheet', requireUser, coach, async (req, res) => {
     const viewer = viewerOf(req.membership!);
     const skaterId = skaterIdOf(req);
-    const { week } = parse(sheetQuerySchema, req.query);
+    const { week } = parse(sheetQuerySchema, singleValued(req.query));
     await assertSkaterVisible(dataSource, viewer, skaterId);
     const timeZone = await teamTimeZone(dataSource, viewer.teamId);
     res.json(await weeklySheet(dataSource, viewer.teamId, timeZone, skaterId, week));

@@ -23,6 +23,7 @@ import { requireTeamRole, requireUser } from '../lib/auth';
 import { notFound, parse } from '../lib/errors';
 import { assertGroupExists, assertSkaterVisible, teamTimeZone, viewerOf } from '../services/review/access';
 import { groupFollowUp, skaterFollowUp, skaterRunsByWeek } from '../services/review/follow-up';
+import { singleValued } from '../services/review/query-string';
 import { resolveRange } from '../services/review/range';
 
 /** A skater id from the path: one that is not a UUID names nobody in this team (404). */
@@ -41,7 +42,7 @@ export function followUpRoutes(dataSource: DataSource) {
   router.get('/teams/:teamId/review/skaters/:skaterId/follow-up', requireUser, member, async (req, res) => {
     const viewer = viewerOf(req.membership!);
     const skaterId = skaterIdOf(req);
-    const { threshold, from, to } = parse(followUpQuerySchema, req.query);
+    const { threshold, from, to } = parse(followUpQuerySchema, singleValued(req.query));
     await assertSkaterVisible(dataSource, viewer, skaterId);
     const timeZone = await teamTimeZone(dataSource, viewer.teamId);
     res.json(await skaterFollowUp(dataSource, viewer.teamId, timeZone, skaterId, resolveRange({ from, to }, timeZone), threshold));
@@ -51,7 +52,7 @@ export function followUpRoutes(dataSource: DataSource) {
     const { teamId } = req.membership!;
     const group = reviewGroupSchema.safeParse(req.params.groupId);
     if (!group.success) throw notFound('No such group in this team');
-    const { threshold, from, to } = parse(followUpQuerySchema, req.query);
+    const { threshold, from, to } = parse(followUpQuerySchema, singleValued(req.query));
     await assertGroupExists(dataSource, teamId, group.data);
     const timeZone = await teamTimeZone(dataSource, teamId);
     res.json(await groupFollowUp(dataSource, teamId, timeZone, group.data, resolveRange({ from, to }, timeZone), threshold));
@@ -60,7 +61,7 @@ export function followUpRoutes(dataSource: DataSource) {
   router.get('/teams/:teamId/review/skaters/:skaterId/runs-by-week', requireUser, member, async (req, res) => {
     const viewer = viewerOf(req.membership!);
     const skaterId = skaterIdOf(req);
-    const query = parse(runsByWeekQuerySchema, req.query);
+    const query = parse(runsByWeekQuerySchema, singleValued(req.query));
     await assertSkaterVisible(dataSource, viewer, skaterId);
     const timeZone = await teamTimeZone(dataSource, viewer.teamId);
     res.json(await skaterRunsByWeek(dataSource, viewer.teamId, timeZone, skaterId, resolveRange(query, timeZone)));

@@ -17,6 +17,7 @@ import { requireTeamRole, requireUser } from '../lib/auth';
 import { notFound, parse } from '../lib/errors';
 import { assertSkaterVisible, teamTimeZone, viewerOf } from '../services/review/access';
 import { lapTrend } from '../services/review/laps';
+import { singleValued } from '../services/review/query-string';
 
 /** A skater id from the path: one that is not a UUID names nobody in this team (404). */
 function skaterIdOf(req: Request): string {
@@ -33,7 +34,7 @@ export function lapTrendRoutes(dataSource: DataSource) {
   router.get('/teams/:teamId/review/skaters/:skaterId/laps', requireUser, member, async (req, res) => {
     const viewer = viewerOf(req.membership!);
     const skaterId = skaterIdOf(req);
-    const query = parse(lapTrendQuerySchema, req.query);
+    const query = parse(lapTrendQuerySchema, singleValued(req.query));
     await assertSkaterVisible(dataSource, viewer, skaterId);
     const timeZone = await teamTimeZone(dataSource, viewer.teamId);
     res.json(await lapTrend(dataSource, viewer.teamId, timeZone, skaterId, query));

@@ -25,6 +25,7 @@ import { requireTeamRole, requireUser } from '../lib/auth';
 import { notFound, parse } from '../lib/errors';
 import { assertGroupExists, assertSkaterVisible, teamTimeZone, viewerOf } from '../services/review/access';
 import { cellNotes, groupMatrix, skaterMatrix, weekGrid } from '../services/review/queries';
+import { singleValued } from '../services/review/query-string';
 import { resolveRange, weekRange } from '../services/review/range';
 
 /** A skater id from the path: one that is not a UUID names nobody in this team (404). */
@@ -51,7 +52,7 @@ export function reviewRoutes(dataSource: DataSource) {
   router.get('/teams/:teamId/review/skaters/:skaterId/weeks', member, async (req, res) => {
     const viewer = viewerOf(req.membership!);
     const skaterId = skaterIdOf(req);
-    const query = parse(reviewRangeQuerySchema, req.query);
+    const query = parse(reviewRangeQuerySchema, singleValued(req.query));
     await assertSkaterVisible(dataSource, viewer, skaterId);
     const timeZone = await teamTimeZone(dataSource, viewer.teamId);
     res.json(await skaterMatrix(dataSource, viewer.teamId, timeZone, skaterId, resolveRange(query, timeZone)));
@@ -60,7 +61,7 @@ export function reviewRoutes(dataSource: DataSource) {
   router.get('/teams/:teamId/review/groups/:groupId/weeks', coach, async (req, res) => {
     const { teamId } = req.membership!;
     const groupId = groupIdOf(req);
-    const query = parse(reviewRangeQuerySchema, req.query);
+    const query = parse(reviewRangeQuerySchema, singleValued(req.query));
     await assertGroupExists(dataSource, teamId, groupId);
     const timeZone = await teamTimeZone(dataSource, teamId);
     res.json(await groupMatrix(dataSource, teamId, timeZone, groupId, resolveRange(query, timeZone)));
@@ -69,7 +70,7 @@ export function reviewRoutes(dataSource: DataSource) {
   router.get('/teams/:teamId/review/week/:week', coach, async (req, res) => {
     const { teamId } = req.membership!;
     const week = parse(z.object({ week: isoWeekSchema('week') }), { week: req.params.week }).week;
-    const { groupId = 'all' } = parse(reviewWeekQuerySchema, req.query);
+    const { groupId = 'all' } = parse(reviewWeekQuerySchema, singleValued(req.query));
     await assertGroupExists(dataSource, teamId, groupId);
     const timeZone = await teamTimeZone(dataSource, teamId);
     res.json(await weekGrid(dataSource, teamId, timeZone, groupId, weekRange(week, week)));
@@ -78,7 +79,7 @@ export function reviewRoutes(dataSource: DataSource) {
   router.get('/teams/:teamId/review/skaters/:skaterId/cells', member, async (req, res) => {
     const viewer = viewerOf(req.membership!);
     const skaterId = skaterIdOf(req);
-    const { cueId, week } = parse(reviewCellQuerySchema, req.query);
+    const { cueId, week } = parse(reviewCellQuerySchema, singleValued(req.query));
     await assertSkaterVisible(dataSource, viewer, skaterId);
     const cue: unknown[] = await dataSource.query(`SELECT 1 FROM cues WHERE team_id = $1 AND id = $2 AND deleted_at IS NULL`, [
       viewer.teamId,

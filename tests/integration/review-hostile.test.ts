@@ -170,10 +170,21 @@ describe('hostile values of every query field: a 400 naming the field', () => {
       shapes(field, route.query[field] || 'x').map(([label, pairs]) => [route.name, field, label, route, pairs] as const),
     ),
   );
-  it.each(cases)('%s ?%s: %s', async (name, field, _label, route, pairs) => {
+  it.each(cases)('%s ?%s: %s', async (name, field, label, route, pairs) => {
     tally(name);
     const res = await asHead(route, withField(route, field, pairs));
     expectNamed(res, field);
+    if (label.startsWith('repeated')) {
+      // Both values may be fine on their own: the message says what is wrong.
+      expect(res.body.error.message).toBe(`${field} is given 2 times: give it once`);
+      expect(res.body.error.fields).toEqual({ [field]: `${field} is given 2 times: give it once` });
+    }
+  });
+  it.each(routes.map((r) => [r.name, r] as const))('%s: a prototype name given twice is named too', async (name, route) => {
+    tally(name);
+    const res = await asHead(route, withField(route, '-', [['__proto__', '1'], ['__proto__', '2']]));
+    expectNamed(res, '__proto__ is given 2 times');
+    expect(Object.keys(res.body.error.fields)).toEqual(['__proto__']);
   });
 });
 
@@ -448,6 +459,27 @@ describe('path ids', () => {
     const res = await send(team.head, team.teamId, `skaters/${team.skaterA.id}/cells`, qs([['cueId', id], ['week', '2026-W40']]));
     expectError(res, 404, 'not_found');
     expect(res.body.error.message).toMatch(/cue/i);
+  });
+  it('cell: a deleted cue is a 404, an archived one still answers (its notes stay)', async () => {
+    const [archivedCue, deletedCue] = team.cues.slice(-2);
+    await server.dataSource.query(`UPDATE cues SET archived = true WHERE id = $1`, [archivedCue.id]);
+    await server.dataSource.query(`UPDATE cues SET deleted_at = now() WHERE id = $1`, [deletedCue.id]);
+    const cell = (id: string) => send(team.head, team.teamId, `skaters/${team.skaterA.id}/cells`, qs([['cueId', id], ['week', '2026-W40']]));
+    tally('cell');
+    tally('cell');
+    expect((await cell(archivedCue.id)).status).toBe(200);
+    const gone = await cell(deletedCue.id);
+    expectError(gone, 404, 'not_found');
+    expect(gone.body.error.message).toMatch(/cue/i);
+  });
+  it.each(routes.map((r) => [r.name, r] as const))('%s: HEAD answers without a body and ends', async (name, route) => {
+    tally(name);
+    const res = await request(server.app)
+      .head(url(team.teamId, route.path({ teamId: team.teamId, skaterId: team.skaterA.id }), qs(Object.entries(validQuery(route)).map(([k, v]) => [k, enc(v)]))))
+      .set(team.head.auth)
+      .timeout(15_000);
+    expect(res.status).toBe(200);
+    expect(res.text ?? '').toBe('');
   });
   it.each(routes.flatMap((r) => ['not-a-team', 'constructor', 'other'].map((t) => [r.name, t, r] as const)))('%s under team %s: 404', async (name, which, route) => {
     tally(name);
