@@ -12,6 +12,7 @@
 import { z } from 'zod';
 import { phaseSchema } from '../cues';
 import { isoWeekSchema } from '../weeks';
+import { strictQuery } from './review';
 import { calendarDaySchema } from './values';
 
 /** The longest range one export covers (a leap year and a day more is refused). */
@@ -34,47 +35,44 @@ export const daysInRange = (from: string, to: string): number =>
 
 const skaterIdsMessage = 'skaterIds must be skater ids (UUIDs) separated by commas';
 
-export const exportQuerySchema = z
-  .object({
-    kind: z.enum(exportKinds, { error: "kind must be 'observations' or 'runs'" }),
-    from: dayOf('from'),
-    to: dayOf('to'),
-    skaterIds: z
-      .string({ error: skaterIdsMessage })
-      .transform((value, ctx) => {
-        const ids = value
-          .split(',')
-          .map((id) => id.trim())
-          .filter((id) => id !== '');
-        if (ids.length === 0) {
-          ctx.addIssue({ code: 'custom', message: 'skaterIds must name at least one skater (leave it out for every skater)' });
-          return z.NEVER;
-        }
-        if (ids.length > MAX_EXPORT_SKATERS) {
-          ctx.addIssue({ code: 'custom', message: `skaterIds names at most ${MAX_EXPORT_SKATERS} skaters` });
-          return z.NEVER;
-        }
-        const bad = ids.find((id) => !z.uuid().safeParse(id).success);
-        if (bad !== undefined) {
-          ctx.addIssue({ code: 'custom', message: `${skaterIdsMessage} ("${bad.slice(0, 40)}" is not one)` });
-          return z.NEVER;
-        }
-        return [...new Set(ids.map((id) => id.toLowerCase()))];
-      })
-      .optional(),
-  })
-  .strict()
-  .superRefine((value, ctx) => {
-    const span = daysInRange(value.from, value.to);
-    if (span < 1) ctx.addIssue({ code: 'custom', path: ['from'], message: `from (${value.from}) must not be after to (${value.to})` });
-    else if (span > MAX_EXPORT_DAYS) {
-      ctx.addIssue({ code: 'custom', path: ['to'], message: `to (${value.to}) must be within ${MAX_EXPORT_DAYS} days of from, both included: an export covers at most ${MAX_EXPORT_DAYS} days (this range holds ${span})` });
-    }
-  });
+export const exportQuerySchema = strictQuery({
+  kind: z.enum(exportKinds, { error: "kind must be 'observations' or 'runs'" }),
+  from: dayOf('from'),
+  to: dayOf('to'),
+  skaterIds: z
+    .string({ error: skaterIdsMessage })
+    .transform((value, ctx) => {
+      const ids = value
+        .split(',')
+        .map((id) => id.trim())
+        .filter((id) => id !== '');
+      if (ids.length === 0) {
+        ctx.addIssue({ code: 'custom', message: 'skaterIds must name at least one skater (leave it out for every skater)' });
+        return z.NEVER;
+      }
+      if (ids.length > MAX_EXPORT_SKATERS) {
+        ctx.addIssue({ code: 'custom', message: `skaterIds names at most ${MAX_EXPORT_SKATERS} skaters` });
+        return z.NEVER;
+      }
+      const bad = ids.find((id) => !z.uuid().safeParse(id).success);
+      if (bad !== undefined) {
+        ctx.addIssue({ code: 'custom', message: `${skaterIdsMessage} ("${bad.slice(0, 40)}" is not one)` });
+        return z.NEVER;
+      }
+      return [...new Set(ids.map((id) => id.toLowerCase()))];
+    })
+    .optional(),
+}).superRefine((value, ctx) => {
+  const span = daysInRange(value.from, value.to);
+  if (span < 1) ctx.addIssue({ code: 'custom', path: ['from'], message: `from (${value.from}) must not be after to (${value.to})` });
+  else if (span > MAX_EXPORT_DAYS) {
+    ctx.addIssue({ code: 'custom', path: ['to'], message: `to (${value.to}) must be within ${MAX_EXPORT_DAYS} days of from, both included: an export covers at most ${MAX_EXPORT_DAYS} days (this range holds ${span})` });
+  }
+});
 export type ExportQuery = z.infer<typeof exportQuerySchema>;
 
 /** ?week=YYYY-Www for the weekly sheet. */
-export const sheetQuerySchema = z.object({ week: isoWeekSchema('week') }).strict();
+export const sheetQuerySchema = strictQuery({ week: isoWeekSchema('week') });
 
 export const sheetCueSchema = z.object({
   cueId: z.uuid(),

@@ -7,6 +7,7 @@ import { z } from 'zod';
 import { phaseSchema } from '../cues';
 import { DEFAULT_STRESS_THRESHOLD, MAX_STRESS_THRESHOLD, MIN_STRESS_THRESHOLD } from '../follow-up';
 import { isIsoWeek, isoWeekSchema, MAX_REVIEW_WEEKS, weekSpan } from '../weeks';
+import { strictQuery } from './review';
 
 const thresholdMessage = `threshold must be a whole number from ${MIN_STRESS_THRESHOLD} to ${MAX_STRESS_THRESHOLD}`;
 
@@ -29,21 +30,15 @@ const rangeRule = (value: { from?: string; to?: string }, ctx: z.RefinementCtx) 
 };
 
 /** ?threshold=3&from=YYYY-Www&to=YYYY-Www: the weeks in which to look for stressed cues. */
-export const followUpQuerySchema = z
-  .object({
-    threshold: stressThresholdSchema.default(DEFAULT_STRESS_THRESHOLD),
-    from: isoWeekSchema('from').optional(),
-    to: isoWeekSchema('to').optional(),
-  })
-  .strict()
-  .superRefine(rangeRule);
+export const followUpQuerySchema = strictQuery({
+  threshold: stressThresholdSchema.default(DEFAULT_STRESS_THRESHOLD),
+  from: isoWeekSchema('from').optional(),
+  to: isoWeekSchema('to').optional(),
+}).superRefine(rangeRule);
 export type FollowUpQuery = z.infer<typeof followUpQuerySchema>;
 
 /** ?from&to for the skater's runs by week. */
-export const runsByWeekQuerySchema = z
-  .object({ from: isoWeekSchema('from').optional(), to: isoWeekSchema('to').optional() })
-  .strict()
-  .superRefine(rangeRule);
+export const runsByWeekQuerySchema = strictQuery({ from: isoWeekSchema('from').optional(), to: isoWeekSchema('to').optional() }).superRefine(rangeRule);
 
 export const followUpVerdictSchema = z.enum(['fading', 'persisting', 'not enough data']);
 

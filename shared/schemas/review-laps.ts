@@ -9,7 +9,7 @@
  */
 import { z } from 'zod';
 import { distanceProblem, trackSchema } from './clock';
-import { reviewRangeQuerySchema } from './review';
+import { reviewRangeQuerySchema, strictQuery } from './review';
 import { isIsoWeek, isoWeekSchema } from '../weeks';
 
 /** Weeks shown when no range is asked for: half a season, so monthly test days show a trend. */
@@ -22,36 +22,33 @@ const distanceMessage = 'distanceM must be a distance in whole metres, like 1500
  * server shows the distance the skater ran last; without a track, long track; the range as in
  * the rest of the review (at most 104 weeks), by default the last 26.
  */
-export const lapTrendQuerySchema = z
-  .object({
-    distanceM: z
-      .string({ error: distanceMessage })
-      .regex(/^\d{1,6}$/, distanceMessage)
-      .transform(Number)
-      .refine((n) => n >= 1, { error: 'distanceM must be a distance (free laps have no splits to compare)' })
-      .optional(),
-    track: trackSchema.optional(),
-    from: isoWeekSchema('from').optional(),
-    to: isoWeekSchema('to').optional(),
-  })
-  .strict()
-  .superRefine((value, ctx) => {
-    // The same range rules as the cue counts (from before to, at most 104 weeks).
-    const weeksOk = (!value.from || isIsoWeek(value.from)) && (!value.to || isIsoWeek(value.to));
-    const range = weeksOk ? reviewRangeQuerySchema.safeParse({ from: value.from, to: value.to }) : null;
-    if (range && !range.success) {
-      for (const issue of range.error.issues) {
-        if (issue.code === 'custom') ctx.addIssue({ code: 'custom', path: issue.path, message: issue.message });
-      }
+export const lapTrendQuerySchema = strictQuery({
+  distanceM: z
+    .string({ error: distanceMessage })
+    .regex(/^\d{1,6}$/, distanceMessage)
+    .transform(Number)
+    .refine((n) => n >= 1, { error: 'distanceM must be a distance (free laps have no splits to compare)' })
+    .optional(),
+  track: trackSchema.optional(),
+  from: isoWeekSchema('from').optional(),
+  to: isoWeekSchema('to').optional(),
+}).superRefine((value, ctx) => {
+  // The same range rules as the cue counts (from before to, at most 104 weeks).
+  const weeksOk = (!value.from || isIsoWeek(value.from)) && (!value.to || isIsoWeek(value.to));
+  const range = weeksOk ? reviewRangeQuerySchema.safeParse({ from: value.from, to: value.to }) : null;
+  if (range && !range.success) {
+    for (const issue of range.error.issues) {
+      if (issue.code === 'custom') ctx.addIssue({ code: 'custom', path: issue.path, message: issue.message });
     }
-    if (value.distanceM !== undefined && value.distanceM >= 1) {
-      const problem = distanceProblem(value.distanceM, value.track ?? 'long', { freeLaps: false });
-      if (problem) ctx.addIssue({ code: 'custom', path: ['distanceM'], message: `${problem} (track ${value.track ?? 'long'})` });
-    }
-    if (value.track !== undefined && value.distanceM === undefined) {
-      ctx.addIssue({ code: 'custom', path: ['distanceM'], message: 'distanceM is needed with track (which distance on that track?)' });
-    }
-  });
+  }
+  if (value.distanceM !== undefined && value.distanceM >= 1) {
+    const problem = distanceProblem(value.distanceM, value.track ?? 'long', { freeLaps: false });
+    if (problem) ctx.addIssue({ code: 'custom', path: ['distanceM'], message: `${problem} (track ${value.track ?? 'long'})` });
+  }
+  if (value.track !== undefined && value.distanceM === undefined) {
+    ctx.addIssue({ code: 'custom', path: ['distanceM'], message: 'distanceM is needed with track (which distance on that track?)' });
+  }
+});
 export type LapTrendQuery = z.infer<typeof lapTrendQuerySchema>;
 
 /** A distance and track the skater has live runs of (all time), for the client's choice. */

@@ -8,11 +8,25 @@ import { z } from 'zod';
 import { phaseSchema } from '../cues';
 import { isIsoWeek, isoWeekSchema, MAX_REVIEW_WEEKS, weekSpan } from '../weeks';
 
+/**
+ * A review route's query string: only the fields named in `shape`. Any other key (?from[]=x,
+ * ?constructor=1, a typo) is a 400 that names it and the fields the route reads.
+ */
+export function strictQuery<T extends z.ZodRawShape>(shape: T) {
+  const names = Object.keys(shape);
+  const reads = names.length === 1 ? names[0] : `${names.slice(0, -1).join(', ')} and ${names[names.length - 1]}`;
+  return z.strictObject(shape, {
+    error: (issue) => {
+      if (issue.code !== 'unrecognized_keys') return undefined;
+      const keys = issue.keys.slice(0, 3).map((key) => `"${key.length > 40 ? `${key.slice(0, 40)}…` : key}"`);
+      const more = issue.keys.length > 3 ? ` and ${issue.keys.length - 3} more` : '';
+      return `${keys.join(', ')}${more} ${issue.keys.length === 1 ? 'is' : 'are'} not read here: this view reads ${reads}`;
+    },
+  });
+}
+
 /** ?from=YYYY-Www&to=YYYY-Www, both optional (the default is the last 8 weeks of the team's zone). */
-export const reviewRangeQuerySchema = z
-  .object({ from: isoWeekSchema('from'), to: isoWeekSchema('to') })
-  .partial()
-  .strict()
+export const reviewRangeQuerySchema = strictQuery({ from: isoWeekSchema('from').optional(), to: isoWeekSchema('to').optional() })
   .superRefine((value, ctx) => {
     // The week checks above report a week that does not exist; the span needs two real ones.
     if (value.from && value.to && isIsoWeek(value.from) && isIsoWeek(value.to)) {
@@ -35,12 +49,10 @@ export const reviewGroupSchema = z
 export type ReviewGroup = z.infer<typeof reviewGroupSchema>;
 
 /** ?groupId=… for the one-week view (default: the whole team). */
-export const reviewWeekQuerySchema = z.object({ groupId: reviewGroupSchema.optional() }).strict();
+export const reviewWeekQuerySchema = strictQuery({ groupId: reviewGroupSchema.optional() });
 
 /** ?cueId=…&week=… for the notes behind one cell. */
-export const reviewCellQuerySchema = z
-  .object({ cueId: z.uuid({ error: 'cueId must be a UUID' }), week: isoWeekSchema('week') })
-  .strict();
+export const reviewCellQuerySchema = strictQuery({ cueId: z.uuid({ error: 'cueId must be a UUID' }), week: isoWeekSchema('week') });
 
 export const reviewTrendSchema = z.enum(['fewer', 'more', 'steady', 'not enough data']);
 export type ReviewTrend = z.infer<typeof reviewTrendSchema>;

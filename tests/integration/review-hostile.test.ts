@@ -195,6 +195,16 @@ describe('prototype names and unknown fields as query keys: a 400 naming the key
     tally(name);
     const res = await asHead(route, withField(route, '-', [[key, '1']]));
     expectNamed(res, key);
+    // It names the key and what the view reads instead.
+    const reads = route.fields.length === 1 ? route.fields[0] : `${route.fields.slice(0, -1).join(', ')} and ${route.fields[route.fields.length - 1]}`;
+    expect(res.body.error.message).toBe(`"${key}" is not read here: this view reads ${reads}`);
+  });
+  it('several unknown keys, one of them 10 kB: three named, the rest counted, the long one cut', async () => {
+    tally('skater weeks');
+    const route = routes[0];
+    const res = await asHead(route, qs([[TEN_KB, '1'], ['a', '1'], ['b', '1'], ['c', '1'], ['d', '1']]));
+    expectNamed(res, 'and 2 more are not read here: this view reads from and to');
+    expect(res.body.error.message.length).toBeLessThan(200);
   });
 });
 
@@ -544,6 +554,20 @@ describe('roles', () => {
     expectNoStack(res);
     expect([401, 403, 404]).toContain(res.status);
     expect(res.body.error.message).toEqual(expect.any(String));
+  });
+  it('a removed skater no longer reads their own review', async () => {
+    const profile = await addSkater(server.app, team.head, 'Removed Rijder');
+    const gone = await inviteAndAccept(server.app, team.head, 'skater', { skaterId: profile.id, label: 'revhostgone' });
+    const path = `skaters/${profile.id}/weeks`;
+    expect((await send(gone, team.teamId, path, '')).status).toBe(200);
+    await request(server.app).delete(`/api/teams/${team.teamId}/members/${gone.session.user.id}`).set(team.head.auth).expect(204);
+    for (const route of routes.filter((r) => !r.coachOnly)) {
+      tally(route.name);
+      const res = await send(gone, team.teamId, route.path({ teamId: team.teamId, skaterId: profile.id }), valid(route));
+      expectNoStack(res);
+      expect([401, 403, 404]).toContain(res.status);
+      expect(res.body.error.message).toEqual(expect.any(String));
+    }
   });
   it.each(routes.map((r) => [r.name, r] as const))("%s: a skater asking for another skater, a guardian for a skater not theirs", async (name, route) => {
     const cases: [Account, string][] = [
