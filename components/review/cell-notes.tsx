@@ -1,13 +1,16 @@
 /**
  * The notes behind one cell (a skater, a cue, a week), newest first: the day in the team's zone,
  * the coach, the mark (shape + word) and the note's text. Beside the table on a wide screen,
- * under it on a phone. Changing a note from here is not built: the panel says where it can be done.
+ * under it on a phone. Its author and the head coach change a note
+ * in place (the others read it, with a word why).
  */
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 
+import { mayChangeNote } from '../../shared/authors';
 import { cellNotesQuery } from '../../store/review';
+import { useActiveMembership, useSession } from '../../store/session';
 import { Banner, Button, Card, Heading, MarkBadge, Text, colors, spacing } from '../ui';
 import { longDay, weekSpanText } from './format';
 import { NoteEditor } from './note-editor';
@@ -18,6 +21,8 @@ export function CellNotes({ teamId, cell, onClose }: { teamId: string; cell: Cel
   const notes = useQuery(cellNotesQuery(teamId, cell.skaterId, cell.cueId, cell.week));
   const [editing, setEditing] = useState<string | null>(null);
   const [message, setMessage] = useState('');
+  const userId = useSession((s) => s.user?.id ?? '');
+  const role = useActiveMembership()?.role;
   let body;
   if (notes.isPending) body = <Text tone="muted" role="status">Loading the notes…</Text>;
   else if (notes.isError && !notes.data)
@@ -65,7 +70,7 @@ export function CellNotes({ teamId, cell, onClose }: { teamId: string; cell: Cel
                   setMessage(said);
                 }}
               />
-            ) : (
+            ) : mayChangeNote(note, userId, role) ? (
               <Button
                 label="Change this note"
                 variant="quiet"
@@ -77,6 +82,10 @@ export function CellNotes({ teamId, cell, onClose }: { teamId: string; cell: Cel
                 testID={`review-note-change-${note.id}`}
                 style={styles.change}
               />
+            ) : (
+              <Text variant="caption" tone="muted" testID={`review-note-readonly-${note.id}`}>
+                Only its author or the head coach can change this note.
+              </Text>
             )}
           </View>
         ))}
@@ -100,7 +109,7 @@ export function CellNotes({ teamId, cell, onClose }: { teamId: string; cell: Cel
       ) : null}
       {body}
       <Text variant="caption" tone="muted" testID="review-notes-edit-line">
-        A change made here goes out with sync, like one on the Board. Deleting a note is done on the Board, the day it was made.
+        A change made here goes out with sync, like one on the Board. Deleting a note, or moving it to another skater or session, is done in Tidy-up.
       </Text>
     </Card>
   );

@@ -106,6 +106,8 @@ export const reviewCellNoteSchema = z.object({
   /** The local day in the team's zone. */
   day: z.string(),
   authorName: z.string(),
+  /** The author's user id (who may change the note: its author and the head coach); '' for a skater or guardian. */
+  createdBy: z.string(),
   mark: z.enum(['needs_work', 'good']),
   note: z.string(),
   noteShared: z.boolean(),

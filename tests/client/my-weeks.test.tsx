@@ -43,10 +43,10 @@ const matrix: ReviewMatrix = {
 const cell: ReviewCell = {
   timeZone: 'UTC', week: W[5],
   notes: [
-    { id: SHARED, createdAt: '2026-10-07T09:00:00.000Z', day: '2026-10-07', authorName: 'Tjitske Hoogland', mark: 'needs_work', note: 'Knee over the toe', noteShared: true, sessionId: SESSION },
+    { id: SHARED, createdAt: '2026-10-07T09:00:00.000Z', day: '2026-10-07', authorName: 'Tjitske Hoogland', createdBy: '', mark: 'needs_work', note: 'Knee over the toe', noteShared: true, sessionId: SESSION },
     // The server blanks a private note's text for a skater: it must not show as an empty row.
-    { id: PRIVATE, createdAt: '2026-10-06T09:00:00.000Z', day: '2026-10-06', authorName: 'Maarten Kuipers', mark: 'needs_work', note: '', noteShared: false, sessionId: SESSION },
-    { id: MARK_ONLY, createdAt: '2026-10-05T09:00:00.000Z', day: '2026-10-05', authorName: 'Maarten Kuipers', mark: 'good', note: '', noteShared: true, sessionId: SESSION },
+    { id: PRIVATE, createdAt: '2026-10-06T09:00:00.000Z', day: '2026-10-06', authorName: 'Maarten Kuipers', createdBy: '', mark: 'needs_work', note: '', noteShared: false, sessionId: SESSION },
+    { id: MARK_ONLY, createdAt: '2026-10-05T09:00:00.000Z', day: '2026-10-05', authorName: 'Maarten Kuipers', createdBy: '', mark: 'good', note: '', noteShared: true, sessionId: SESSION },
   ],
 };
 const runs: RunsByWeekReply = {

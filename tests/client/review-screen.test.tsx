@@ -41,8 +41,12 @@ jest.mock('../../store/sync-status', () => ({
   runSync: (...args: unknown[]) => mockRunSync(...args),
 }));
 
+// The head coach unless a test signs in a plain coach (who changes only their own notes).
+let mockRole = 'head_coach';
+const mockMe = '0190a0b0-0000-7000-8000-0000000000ee';
 jest.mock('../../store/session', () => ({
-  useActiveMembership: () => ({ teamId: '0190a0b0-0000-7000-8000-000000000001', role: 'head_coach', teamName: 'Test' }),
+  useActiveMembership: () => ({ teamId: '0190a0b0-0000-7000-8000-000000000001', role: mockRole, teamName: 'Test' }),
+  useSession: (pick: (state: { user: { id: string } }) => unknown) => pick({ user: { id: mockMe } }),
 }));
 
 // The range the server gives by default: this week (UTC team) and the seven before it.
@@ -85,8 +89,8 @@ const cell: ReviewCell = {
   timeZone: 'UTC',
   week: W[0],
   notes: [
-    { id: NOTE1, createdAt: '2026-10-07T09:00:00.000Z', day: '2026-10-07', authorName: 'Tjitske Hoogland', mark: 'needs_work', note: 'Sits up in the set', noteShared: true, sessionId: SESSION },
-    { id: NOTE2, createdAt: '2026-10-06T09:00:00.000Z', day: '2026-10-06', authorName: 'Maarten Kuipers', mark: 'good', note: '', noteShared: false, sessionId: SESSION },
+    { id: NOTE1, createdAt: '2026-10-07T09:00:00.000Z', day: '2026-10-07', authorName: 'Tjitske Hoogland', createdBy: '0190a0b0-0000-7000-8000-0000000000aa', mark: 'needs_work', note: 'Sits up in the set', noteShared: true, sessionId: SESSION },
+    { id: NOTE2, createdAt: '2026-10-06T09:00:00.000Z', day: '2026-10-06', authorName: 'Maarten Kuipers', createdBy: mockMe, mark: 'good', note: '', noteShared: false, sessionId: SESSION },
   ],
 };
 const week: ReviewWeek = {
@@ -287,7 +291,7 @@ describe('one skater and the notes behind a cell', () => {
     expect(getByTestIdWeb(`review-note-mark-${NOTE2}`).props['aria-label']).toBe('Good');
     expect(textOf(getByTestIdWeb(`review-note-author-${NOTE2}`))).toBe('By Maarten Kuipers · coaches only');
     expect(textOf(getByTestIdWeb(`review-note-text-${NOTE2}`))).toBe('(no words, just the mark)');
-    expect(textOf(getByTestIdWeb('review-notes-edit-line'))).toMatch(/on the Board/);
+    expect(textOf(getByTestIdWeb('review-notes-edit-line'))).toMatch(/in Tidy-up/);
 
     await tap('review-notes-close');
     expect(queryByTestIdWeb('review-notes')).toBeNull();
@@ -319,6 +323,23 @@ describe('one skater and the notes behind a cell', () => {
     await waitFor(() => expect(reviewUrls(`skaters/${ANNA}/cells`).length).toBeGreaterThan(cellsBefore));
     await waitFor(() => expect(reviewUrls(`skaters/${ANNA}/weeks`).length).toBeGreaterThan(weeksBefore));
     expect(queryByTestIdWeb(`review-edit-${NOTE2}`)).toBeNull();
+  });
+
+  it("offers a plain coach the change of their own note only, and says why not for another coach's", async () => {
+    mockRole = 'coach';
+    try {
+      renderScreen();
+      await openList();
+      await tap(`review-skater-${ANNA}`);
+      await shown('review-matrix');
+      await fireWeb(byLabel(`Sit lower, week ${W[0]}: 3 needs work, 1 good`)!, 'onPress');
+      await shown(`review-note-change-${NOTE2}`);
+      expect(queryByTestIdWeb(`review-note-change-${NOTE1}`)).toBeNull();
+      expect(textOf(getByTestIdWeb(`review-note-readonly-${NOTE1}`))).toBe('Only its author or the head coach can change this note.');
+      expect(queryByTestIdWeb(`review-note-readonly-${NOTE2}`)).toBeNull();
+    } finally {
+      mockRole = 'head_coach';
+    }
   });
 
   it("says why the device refused a change, and says when it waits for the next sync", async () => {

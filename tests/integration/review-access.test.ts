@@ -9,6 +9,7 @@ import request from 'supertest';
 import type { ReviewCell } from '../../shared/schemas/review';
 import { expectError, startTestServer, type Account, type TestServer } from './helpers';
 import { cueOf, makeReviewTeam, pushNotes, review, type ReviewTeam } from './review-helpers';
+import { userIdOf } from './sync-helpers';
 
 let server: TestServer;
 let team: ReviewTeam;
@@ -115,6 +116,9 @@ describe('what a skater or guardian reads of the notes', () => {
       ['good', false, coachView ? `private for ${skater}` : ''],
       ['needs_work', true, `shared for ${skater}`],
     ]);
+    // Coaches learn who wrote each note (its author and the head coach may change it); a skater
+    // or guardian is not given coaches' user ids.
+    expect(body.notes.map((n) => n.createdBy)).toEqual(coachView ? [userIdOf(team.head), userIdOf(team.head)] : ['', '']);
   });
 });
 

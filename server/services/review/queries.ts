@@ -189,6 +189,7 @@ export async function cellNotes(
     created_at: string;
     day: string;
     author_name: string;
+    created_by: string | null;
     mark: 'needs_work' | 'good';
     note: string;
     note_shared: boolean;
@@ -198,6 +199,7 @@ export async function cellNotes(
             to_char(o.created_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS.MS"Z"') AS created_at,
             to_char(o.created_at AT TIME ZONE $2, 'YYYY-MM-DD') AS day,
             coalesce(nullif(o.author_name, ''), u.display_name, '') AS author_name,
+            CASE WHEN $7 THEN o.created_by::text ELSE '' END AS created_by,
             o.mark,
             CASE WHEN $7 OR o.note_shared THEN o.note ELSE '' END AS note,
             o.note_shared, o.session_id
@@ -217,6 +219,7 @@ export async function cellNotes(
       createdAt: r.created_at,
       day: r.day,
       authorName: r.author_name,
+      createdBy: r.created_by ?? '',
       mark: r.mark,
       note: r.note,
       noteShared: r.note_shared,
