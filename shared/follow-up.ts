@@ -18,9 +18,10 @@
  * Related lap times: the skater's most-timed distance (track and distance with the most finished,
  * fully timed runs in the weeks asked for), and per week the mean lap time of those runs, the
  * first section (the opener, or the standing-start first lap) left out, with the number of runs.
- * Laps come from shared/timing.ts (lapsFromCrossings); nothing here redoes that arithmetic.
+ * Laps come from shared/timing.ts (runResult, the same rule as the CSV, the weekly sheet and the
+ * lap chart); nothing here redoes that arithmetic.
  */
-import { distanceLayout, lapsFromCrossings, type Track } from './timing';
+import { runResult, type Track } from './timing';
 
 export const DEFAULT_STRESS_THRESHOLD = 3;
 export const MIN_STRESS_THRESHOLD = 1;
@@ -101,6 +102,8 @@ export interface TimedRun {
   track: Track;
   /** Crossing times (ms since the gun) in order. */
   crossingsMs: readonly number[];
+  /** The run's status; the server reads finished runs only, so it defaults to finished. */
+  status?: string;
 }
 
 export interface LapBasis {
@@ -118,23 +121,13 @@ export interface WeekLaps {
 }
 
 /**
- * The laps of a fully timed run after its first section, or null when the run cannot be read
- * that way: free laps (no distance), a crossing missing or extra, crossings not increasing.
+ * The laps of a complete run (shared/timing.ts runResult: finished, exactly one crossing per
+ * split, strictly increasing) after its first section, or null when the run is not complete:
+ * free laps (no distance), a crossing missing or extra, crossings not increasing.
  */
-export function lapsAfterOpener(run: Pick<TimedRun, 'distanceM' | 'track' | 'crossingsMs'>): number[] | null {
-  if (run.distanceM <= 0) return null;
-  let splits: number;
-  try {
-    splits = distanceLayout(run.distanceM, run.track).splitsAtM.length;
-  } catch {
-    return null;
-  }
-  if (run.crossingsMs.length !== splits) return null;
-  try {
-    return lapsFromCrossings(run.crossingsMs).slice(1);
-  } catch {
-    return null;
-  }
+export function lapsAfterOpener(run: Pick<TimedRun, 'distanceM' | 'track' | 'crossingsMs' | 'status'>): number[] | null {
+  const result = runResult(run.distanceM, run.track, run.status ?? 'finished', run.crossingsMs);
+  return result.complete ? result.laps.slice(1) : null;
 }
 
 /**

@@ -427,6 +427,45 @@ export function lapsFromCrossings(crossingsMs: readonly number[]): number[] {
   });
 }
 
+export interface RunResult {
+  /** Section times (the first is the opener), or [] when the crossings do not increase. */
+  laps: number[];
+  /** The time over the line at the distance: only for a complete run, otherwise null. */
+  finishMs: number | null;
+  /** A finished run of a set distance with exactly one crossing per split, strictly increasing. */
+  complete: boolean;
+  /** The crossings increase strictly, the first after the gun (so laps can be read off them). */
+  ordered: boolean;
+}
+
+/**
+ * One run's result from its stored crossings (ms since the gun, in stored order), the one rule
+ * every review view uses (runs CSV, weekly sheet, lap chart, follow-up laps): a run has a finish
+ * only when it is finished, has a set distance (free laps have none), and has exactly one crossing
+ * per split of that distance, strictly increasing. Anything else (a stray tap after the gun, a
+ * double tap at the line, a missing crossing) is not complete and has no finish: nothing is
+ * dropped or guessed. Laps are read off any strictly increasing crossings, complete or not.
+ */
+export function runResult(distanceM: number, track: Track, status: string, crossingsMs: readonly number[]): RunResult {
+  let laps: number[] = [];
+  let ordered = true;
+  try {
+    laps = lapsFromCrossings(crossingsMs);
+  } catch {
+    ordered = false;
+  }
+  let splits = -1;
+  if (distanceM > 0) {
+    try {
+      splits = distanceLayout(distanceM, track).splitsAtM.length;
+    } catch {
+      splits = -1;
+    }
+  }
+  const complete = ordered && status === 'finished' && splits > 0 && crossingsMs.length === splits;
+  return { laps, finishMs: complete ? crossingsMs[crossingsMs.length - 1] : null, complete, ordered };
+}
+
 function checkSchedule(schedule: readonly PaceEntry[]): readonly PaceEntry[] {
   if (!Array.isArray(schedule) || schedule.length === 0) {
     throw new RangeError('schedule must be a non-empty list from paceSchedule()');

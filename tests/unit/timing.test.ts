@@ -18,6 +18,7 @@ import {
   paceSchedule,
   parseRaceTime,
   points500,
+  runResult,
   predictFinishMs,
   PUBLISHED_1500_PROFILE,
   speakSplit,
@@ -460,5 +461,47 @@ describe('gunSoundDelayMs', () => {
   it('refuses distances outside 0–1000 m and implausible temperatures', () => {
     expect(() => gunSoundDelayMs(-1)).toThrow(/between 0 and 1000 m/);
     expect(() => gunSoundDelayMs(100, 80)).toThrow(/airTempC/);
+  });
+});
+
+describe('runResult (one rule for the CSV, the weekly sheet, the lap chart and the follow-up)', () => {
+  it('a finished 500 m with one crossing per split has a finish and its laps', () => {
+    expect(distanceLayout(500, 'long').splitsAtM).toEqual([100, 500]);
+    expect(runResult(500, 'long', 'finished', [10_400, 37_000])).toEqual({
+      laps: [10_400, 26_600],
+      finishMs: 37_000,
+      complete: true,
+      ordered: true,
+    });
+  });
+
+  it('a stray tap after the gun: not complete, no finish (no crossing dropped to make one)', () => {
+    expect(runResult(500, 'long', 'finished', [50, 10_400, 37_000])).toEqual({
+      laps: [50, 10_350, 26_600],
+      finishMs: null,
+      complete: false,
+      ordered: true,
+    });
+  });
+
+  it('a double tap at the line: not complete, no finish', () => {
+    const r = runResult(500, 'long', 'finished', [10_400, 37_000, 37_012]);
+    expect(r.complete).toBe(false);
+    expect(r.finishMs).toBeNull();
+    expect(r.laps).toEqual([10_400, 26_600, 12]);
+  });
+
+  it('crossings that do not increase give no laps and no finish', () => {
+    expect(runResult(500, 'long', 'finished', [10_400, 10_400])).toEqual({ laps: [], finishMs: null, complete: false, ordered: false });
+    expect(runResult(500, 'long', 'finished', [0, 37_000]).ordered).toBe(false);
+  });
+
+  it('a missing crossing, a stopped run, free laps and an unknown distance have no finish', () => {
+    expect(runResult(500, 'long', 'finished', [37_000]).finishMs).toBeNull();
+    expect(runResult(500, 'long', 'stopped', [10_400, 37_000]).finishMs).toBeNull();
+    expect(runResult(500, 'long', 'running', [10_400, 37_000]).complete).toBe(false);
+    const free = runResult(0, 'long', 'finished', [30_000, 60_000]);
+    expect(free).toEqual({ laps: [30_000, 30_000], finishMs: null, complete: false, ordered: true });
+    expect(runResult(-5, 'short', 'finished', [30_000]).finishMs).toBeNull();
   });
 });

@@ -18,7 +18,7 @@ import { stringify, type Stringifier } from 'csv-stringify';
 import type { DataSource } from 'typeorm';
 import { phases, type Phase } from '../../../shared/cues';
 import type { ExportKind, SheetRun, WeeklySheet } from '../../../shared/schemas/review-export';
-import { distanceLayout, formatRaceTime, lapsFromCrossings, type Track } from '../../../shared/timing';
+import { formatRaceTime, runResult, type Track } from '../../../shared/timing';
 import { weekStartDay } from '../../../shared/weeks';
 import { badRequest } from '../../lib/errors';
 import { weekRange } from './range';
@@ -282,34 +282,8 @@ const runSql = (after: boolean) => `
     LEFT JOIN users u ON u.id = r.created_by
    ORDER BY r.started_at, r.id`;
 
-export interface RunFigures {
-  finishMs: number | null;
-  laps: number[];
-}
-
-/**
- * A run's finish and section times from its crossings (ms since the gun), through shared/timing:
- * the finish is the crossing that completes the distance of a finished run (free laps, distance
- * 0, have none); crossings that do not increase (a double stored twice) are left out of the laps.
- */
-export function runFigures(distanceM: number, track: Track, status: string, crossingsMs: readonly number[]): RunFigures {
-  const increasing: number[] = [];
-  for (const at of crossingsMs) if (at > (increasing[increasing.length - 1] ?? 0)) increasing.push(at);
-  let sections = increasing.length;
-  if (distanceM > 0) {
-    try {
-      sections = distanceLayout(distanceM, track).splitsAtM.length;
-    } catch {
-      sections = increasing.length;
-    }
-  }
-  const counted = increasing.slice(0, sections);
-  const finishMs = status === 'finished' && distanceM > 0 && counted.length === sections && sections > 0 ? counted[sections - 1] : null;
-  return { finishMs, laps: lapsFromCrossings(counted) };
-}
-
 function runRecord(r: RunRow): unknown[] {
-  const { finishMs, laps } = runFigures(r.distance_m, r.track, r.status, r.crossings ?? []);
+  const { finishMs, laps } = runResult(r.distance_m, r.track, r.status, r.crossings ?? []);
   // A number column: seconds with three decimals, negative when faster than the target.
   const gap = finishMs !== null && r.target_ms !== null ? Math.round(finishMs - r.target_ms) / 1000 : null;
   return [
@@ -485,7 +459,7 @@ export async function weeklySheet(
       authorName: n.author,
     })),
     runs: runs.map((r): SheetRun => {
-      const { finishMs, laps } = runFigures(r.distance_m, r.track, r.status, r.crossings ?? []);
+      const { finishMs, laps } = runResult(r.distance_m, r.track, r.status, r.crossings ?? []);
       return {
         id: r.id,
         day: r.day,

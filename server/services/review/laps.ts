@@ -7,7 +7,7 @@
  *   those of its start in the team's zone; runs.day, the device's own day, only narrows the index
  *   range, by two days either side, since no two zones are more than 26 hours apart);
  * - the personal bests over ALL complete runs (best finish, best section per split index), with
- *   window functions: a complete run is finished, has exactly one crossing per split and no two
+ *   window functions: a complete run (shared/timing.ts runResult, in SQL) is finished, has exactly one crossing per split and no two
  *   crossings at the same instant;
  * - the skater's current target for the distance.
  * Deleted runs and crossings (deleted_at set) never count. The lap arithmetic (sections, layouts,
@@ -16,7 +16,7 @@
 import type { DataSource } from 'typeorm';
 import { LAP_TREND_DEFAULT_WEEKS, type LapRun, type LapRunState, type LapTrend, type LapTrendQuery } from '../../../shared/schemas/review-laps';
 import type { Track } from '../../../shared/schemas/clock';
-import { distanceLayout, lapsFromCrossings, paceSchedule } from '../../../shared/timing';
+import { distanceLayout, paceSchedule, runResult } from '../../../shared/timing';
 import { addIsoWeeks, defaultWeekRange, isIsoWeek, weekOf } from '../../../shared/weeks';
 import { weekRange, type WeekRange } from './range';
 
@@ -134,18 +134,20 @@ const targetSql = `
     FROM targets
    WHERE team_id = $1 AND skater_id = $2 AND track = $3 AND distance_m = $4 AND deleted_at IS NULL`;
 
-/** A run's laps and whether it counts, from its ordered crossings (shared/timing.ts). */
-export function runFigures(status: LapRun['status'], crossingsMs: number[], splits: number) {
-  let lapsMs: number[];
-  try {
-    lapsMs = lapsFromCrossings(crossingsMs);
-  } catch {
-    // Two crossings at one instant (or one at the gun): no sections can be read off them.
-    return { state: 'unordered' as LapRunState, lapsMs: [] as number[], finishMs: null };
-  }
-  const state: LapRunState =
-    status === 'finished' ? (crossingsMs.length === splits ? 'complete' : 'partial') : status === 'stopped' ? 'stopped' : 'running';
-  return { state, lapsMs, finishMs: state === 'complete' ? crossingsMs[crossingsMs.length - 1] : null };
+/** A run's laps, finish and state, from its ordered crossings (shared/timing.ts runResult). */
+export function lapRunFigures(status: LapRun['status'], crossingsMs: number[], distanceM: number, track: Track) {
+  const result = runResult(distanceM, track, status, crossingsMs);
+  // Two crossings at one instant (or one at the gun): no sections can be read off them.
+  const state: LapRunState = !result.ordered
+    ? 'unordered'
+    : result.complete
+      ? 'complete'
+      : status === 'finished'
+        ? 'partial'
+        : status === 'stopped'
+          ? 'stopped'
+          : 'running';
+  return { state, lapsMs: result.laps, finishMs: result.finishMs };
 }
 
 function scheduleOf(distanceM: number, track: Track, row: TargetRow): number[] {
@@ -207,7 +209,7 @@ export async function lapTrend(
       authorName: row.author_name,
       targetMs: row.target_ms,
       crossingsMs,
-      ...runFigures(row.status, crossingsMs, splits),
+      ...lapRunFigures(row.status, crossingsMs, distanceM, track),
       handTimed: row.hand_timed,
     };
   });
