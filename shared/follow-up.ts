@@ -10,9 +10,12 @@
  *   with what it has so far); later ones are "to come".
  * - Over the counted follow-up weeks, add up the cue's marks. Fewer than 3 marks: "not enough data"
  *   (one or two taps say nothing, the same floor as the trend rule in server/services/review/trend.ts).
- * - "fading": at least half of those marks are "good" AND the good share is at least 15 percentage
- *   points above the stressed week's own good share (the trend rule's 15 points).
- * - otherwise "persisting": the fault is still marked as often as, or more often than, it is not.
+ * - "fading": at least half of those marks are "good" AND either the good share is at least 15
+ *   percentage points above the stressed week's own good share (the trend rule's 15 points) or no
+ *   "needs work" mark follows at all (a week already mostly good cannot rise 15 points, yet a
+ *   clean follow-up is the fault fading).
+ * - otherwise "persisting": fewer than half good, or half or more good but neither up 15 points
+ *   nor clean.
  * The verdict rests on the marks; the lap times are shown beside it as figures, never folded in.
  *
  * Related lap times: the skater's most-timed distance (track and distance with the most finished,
@@ -88,7 +91,8 @@ export function followUpVerdict(stressed: MarkCount, weeks: readonly FollowUpWee
   };
   if (after === null || afterMarks < FOLLOW_UP_MIN_MARKS) return { verdict: 'not enough data', ...figures };
   // A small epsilon so exactly 15 points and exactly half count despite floating point.
-  const fading = after >= FOLLOW_UP_GOOD_SHARE - 1e-9 && after - before >= FOLLOW_UP_CHANGE - 1e-9;
+  const afterNeedsWork = afterMarks - afterGood;
+  const fading = after >= FOLLOW_UP_GOOD_SHARE - 1e-9 && (after - before >= FOLLOW_UP_CHANGE - 1e-9 || afterNeedsWork === 0);
   return { verdict: fading ? 'fading' : 'persisting', ...figures };
 }
 
@@ -176,8 +180,9 @@ export const lapChangeMs = (stressed: WeekLaps, after: WeekLaps): number | null 
 export const FOLLOW_UP_RULE =
   `A cue is stressed in a week when it got at least N \u201Cneeds work\u201D marks that week. ` +
   `Over the next ${FOLLOW_UP_WEEKS} weeks (only weeks that have begun), its marks are added up: ` +
-  `fewer than ${FOLLOW_UP_MIN_MARKS} marks \u2013 not enough data; at least half of them good and the good share ` +
-  `${Math.round(FOLLOW_UP_CHANGE * 100)} points or more above the stressed week\u2019s \u2013 fading; otherwise \u2013 persisting.`;
+  `fewer than ${FOLLOW_UP_MIN_MARKS} marks \u2013 not enough data; at least half of them good and either the good share ` +
+  `${Math.round(FOLLOW_UP_CHANGE * 100)} points or more above the stressed week\u2019s or no \u201Cneeds work\u201D mark at all ` +
+  `\u2013 fault fading; otherwise \u2013 fault persisting.`;
 
 export const LAP_RULE =
   'Lap times: the skater\u2019s most-timed distance (fully timed, finished runs), the mean lap per week with the first ' +

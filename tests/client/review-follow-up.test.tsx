@@ -57,7 +57,30 @@ const groupReply: GroupFollowUpReply = {
   skaters: [
     { skaterId: ANNA, displayName: 'Anna Reede', lapBasis: { distanceM: 1500, track: 'long', runs: 3 }, items: [fading] },
     // The same cue and week for another skater: the cards keep apart.
-    { skaterId: BEREND, displayName: 'Berend Visser', lapBasis: null, items: [{ ...fading, laps: noLaps, afterLaps: noLaps, lapChangeMs: null }] },
+    // Berend's fault is still marked: persisting.
+    {
+      skaterId: BEREND,
+      displayName: 'Berend Visser',
+      lapBasis: null,
+      items: [
+        {
+          ...fading,
+          laps: noLaps,
+          after: [
+            { week: '2026-W07', needsWork: 2, good: 1, counted: true, laps: noLaps },
+            { week: '2026-W08', needsWork: 0, good: 0, counted: true, laps: noLaps },
+            { week: '2026-W09', needsWork: 1, good: 0, counted: true, laps: noLaps },
+            { week: '2026-W10', needsWork: 1, good: 1, counted: true, laps: noLaps },
+          ],
+          afterLaps: noLaps,
+          lapChangeMs: null,
+          verdict: 'persisting',
+          afterGood: 2,
+          afterMarks: 6,
+          changePoints: 8.3,
+        },
+      ],
+    },
   ],
 };
 
@@ -130,7 +153,7 @@ describe('cue follow-up', () => {
 
     // The verdict never without its counts: both in the same box.
     expect(text(`${item(fading)}-verdict`)).toBe(
-      '\u2193 Fading4 good of 6 marks in the next 4 weeks (67 %), against 1/4 (25 %) in the stressed week, +41.7 points.',
+      '\u2193 Fault fading4 good of 6 marks in the next 4 weeks (67 %), against 1/4 (25 %) in the stressed week, +41.7 points.',
     );
     expect(text(`${item(fading)}-stressed`)).toMatch(/^Stressed in 2026-W06 \(Mon 2 Feb – Sun 8 Feb 2026\): 3 needs work, 1 good\.$/);
     expect(text(`${item(fading)}-week-2026-W06-marks`)).toBe('1/4 good (25 %)');
@@ -155,7 +178,9 @@ describe('cue follow-up', () => {
       .map((n) => n.props['data-testid']);
     expect(order).toEqual([item(unknown), item(fading)]);
     // The rule is on screen.
-    expect(text('follow-up-rule')).toMatch(/at least N “needs work” marks.*next 4 weeks.*fewer than 3 marks.*15 points or more.*persisting/);
+    expect(text('follow-up-rule')).toMatch(
+      /at least N “needs work” marks.*next 4 weeks.*fewer than 3 marks.*15 points or more.*or no “needs work” mark at all.*fault fading; otherwise.*fault persisting\./,
+    );
   });
 
   it('the stepper asks again with the new threshold, and stops at 1', async () => {
@@ -185,8 +210,11 @@ describe('cue follow-up', () => {
     expect(groupUrl.searchParams.get('threshold')).toBe('3');
     expect(text('follow-up-heading')).toBe('Follow-up: All skaters');
     expect(text('follow-up-summary')).toMatch(/^2 skaters in All skaters with a stressed cue between 2026-W02 and 2026-W49 \(2 cue-weeks, 3 or more/);
-    expect(text(`follow-up-item-${ANNA}-${SIT}-2026-W06-verdict`)).toMatch(/^\u2193 Fading4 good of 6 marks/);
+    expect(text(`follow-up-item-${ANNA}-${SIT}-2026-W06-verdict`)).toMatch(/^\u2193 Fault fading4 good of 6 marks/);
     expect(text(`follow-up-item-${BEREND}-${SIT}-2026-W06-laps`)).toBe('Lap times: no fully timed, finished runs in these weeks.');
+    expect(text(`follow-up-item-${BEREND}-${SIT}-2026-W06-verdict`)).toBe(
+      '\u2192 Fault persisting2 good of 6 marks in the next 4 weeks (33 %), against 1/4 (25 %) in the stressed week, +8.3 points.',
+    );
     await tap(`follow-up-open-${BEREND}`);
     await waitFor(() => expect(text('follow-up-heading')).toBe('Follow-up: Berend Visser'));
     expect(followUpUrls().some((u) => u.pathname.endsWith(`/skaters/${BEREND}/follow-up`))).toBe(true);

@@ -131,7 +131,7 @@ async function readMyWeeks(page: Page, heading: string, cueId: string, stressedW
   await expect(page.getByTestId('my-weeks-runs')).toContainText('Laps: Opener 25.31 · Lap 1 28.71 · Lap 2 28.88 · Finish 28.55');
   // "Did it stick?": the same verdict the coach reads, with its counts.
   await expect(page.getByTestId(`follow-up-item-${cueId}-${stressedWeek}-verdict`)).toHaveText(
-    '\u2193 Fading4 good of 5 marks in the next 4 weeks (80 %), against 1/4 (25 %) in the stressed week, +55 points.',
+    '\u2193 Fault fading4 good of 5 marks in the next 4 weeks (80 %), against 1/4 (25 %) in the stressed week, +55 points.',
   );
 }
 
@@ -173,7 +173,7 @@ test('a coach reads a stressed cue’s follow-up; the skater and the guardian re
   await page.getByTestId('review-section-follow-up').click();
   await page.getByTestId(`review-skater-${anna.id}`).click();
   await expect(page.getByTestId(`${item}-verdict`)).toHaveText(
-    '\u2193 Fading4 good of 5 marks in the next 4 weeks (80 %), against 1/4 (25 %) in the stressed week, +55 points.',
+    '\u2193 Fault fading4 good of 5 marks in the next 4 weeks (80 %), against 1/4 (25 %) in the stressed week, +55 points.',
   );
   await expect(page.getByTestId(`${item}-stressed`)).toContainText(`Stressed in ${stressedWeek}`);
   await expect(page.getByTestId(`${item}-stressed`)).toContainText('3 needs work, 1 good.');
@@ -193,7 +193,7 @@ test('a coach reads a stressed cue’s follow-up; the skater and the guardian re
   // --- the coach, phone ---
   await page.setViewportSize(PHONE);
   await settleLayout(page);
-  await expect(page.getByTestId(`${item}-verdict`)).toContainText('\u2193 Fading4 good of 5 marks in the next 4 weeks (80 %)');
+  await expect(page.getByTestId(`${item}-verdict`)).toContainText('\u2193 Fault fading4 good of 5 marks in the next 4 weeks (80 %)');
   await expect(page.getByTestId(`${item}-week-${stressedWeek}-marks`)).toHaveText('1/4 good (25 %)');
   await expectTapTargetsAtLeast(page, 'follow-up');
   await page.getByTestId(item).screenshot({ path: path.join(SHOTS, 'review-follow-up-item-390.png') });

@@ -76,6 +76,17 @@ describe('followUpVerdict', () => {
     });
   });
 
+  it('a mostly good stressed week followed by only good marks is fading, though the rise is under 15 points', () => {
+    // Stressed: 3 needs work, 20 good (87 %); after: 6 good, 0 needs work (100 %, +13 points).
+    const clean = followUpVerdict({ needsWork: 3, good: 20 }, weeks([0, 4], [0, 2], [0, 0], [0, 0]));
+    expect(clean).toMatchObject({ verdict: 'fading', afterGood: 6, afterMarks: 6, changePoints: 13 });
+    // One needs-work mark after and the rise still under 15 points: persisting.
+    const oneBack = followUpVerdict({ needsWork: 3, good: 20 }, weeks([1, 4], [0, 2], [0, 0], [0, 0]));
+    expect(oneBack).toMatchObject({ verdict: 'persisting', afterGood: 6, afterMarks: 7 });
+    // The floor still holds: two clean marks are not enough data.
+    expect(followUpVerdict({ needsWork: 3, good: 20 }, weeks([0, 2], [0, 0], [0, 0], [0, 0])).verdict).toBe('not enough data');
+  });
+
   it('fewer than 3 marks over the four weeks is not enough data, with the counts kept', () => {
     const two = followUpVerdict({ needsWork: 5, good: 0 }, weeks([0, 1], [0, 0], [0, 1], [0, 0]));
     expect(two).toMatchObject({ verdict: 'not enough data', afterGood: 2, afterMarks: 2, stressedMarks: 5, changePoints: 100 });

@@ -9,8 +9,8 @@ import { formatGap, formatRaceTime } from '../../../shared/timing';
 import { distanceLabel, trackLabel } from '../../clock/clock-math';
 
 export const verdictSigns: Record<FollowUpItem['verdict'], { glyph: string; word: string }> = {
-  fading: { glyph: '\u2193', word: 'Fading' },
-  persisting: { glyph: '\u2192', word: 'Persisting' },
+  fading: { glyph: '\u2193', word: 'Fault fading' },
+  persisting: { glyph: '\u2192', word: 'Fault persisting' },
   'not enough data': { glyph: '\u2013', word: 'Not enough data' },
 };
 
