@@ -12,6 +12,7 @@
  * A new synced table (review notes, media) is one entry here plus a server migration and a
  * device migration creating its columns. The clock's runs, crossings and targets were added so.
  */
+import { v5 as uuidv5 } from 'uuid';
 import { z, type ZodType } from 'zod';
 import { cueLabelSchema, phaseSchema } from './cues';
 import { daySchema, markSchema, noteSchema } from './schemas/board';
@@ -110,14 +111,27 @@ export interface SyncTable {
    * server's tombstone arrives, and a record that never left the device goes without a trace.
    * 'never': the table has no deletes (its ids are derived from what the record is about, so a
    * tombstone would block that id for good); the server refuses a delete op. Absent: the server
-   * accepts deletes and the device drops the row when the tombstone arrives.
+   * accepts deletes and the device drops the row when the tombstone arrives. A table whose ids are
+   * derived only for some records (a day's board session) says so in `deleteGuard` instead.
    */
   deletes?: 'tombstone' | 'never';
   /**
+   * Limits on a delete beyond `pushBy` (checked by the server's push and by the device store
+   * before it queues one). A tombstone blocks its id for good, so:
+   * - `by`: only the record's author (its `author` field) and the head coach delete it;
+   * - `held`: a delete of an id the server never held is refused (no tombstone for a future id);
+   * - `derivedId`: the id the record would have if it were the one derived from its fields (a
+   *   day's board session, sessionIdFor(team, day)); a record with that id is never deleted.
+   */
+  deleteGuard?: {
+    by: 'author_or_head_coach';
+    held: true;
+    derivedId?: (teamId: string, record: Record<string, unknown>) => string | null;
+  };
+  /**
    * A delete is refused while live records of `table` still point at this one through `field`
-   * (a session still holding notes): nothing is deleted out from under them. A merge moves the
-   * notes first (earlier ops of the same or an earlier batch), then deletes the emptied session;
-   * a merge of a session into itself therefore never deletes it. The push loads those records.
+   * (a session still holding notes): nothing is deleted out from under them. The push loads
+   * those records (notes moved away by earlier ops of the batch no longer count).
    */
   keptWhileReferenced?: { table: SyncTableName; field: string };
   /**
@@ -133,6 +147,12 @@ export interface SyncTable {
   viewerRows: 'team' | { where: string };
   fields: Record<string, SyncField>;
 }
+
+/** Fixed namespace for session ids: one board session per team and day, the same id on every device. */
+const SESSION_NAMESPACE = '6f1d4b52-8f0e-4f7c-9a51-3c2d7e1b9a40';
+
+/** The board's session of a team's day (the same id on every device; sync/tables/sessions.ts makes it the same way). */
+export const boardSessionIdFor = (teamId: string, day: string) => uuidv5(`${teamId}/${day}`, SESSION_NAMESPACE);
 
 const uuid = (name: string) => z.uuid({ error: `${name} must be a UUID` });
 
@@ -201,9 +221,13 @@ export const syncTables: Record<SyncTableName, SyncTable> = {
   sessions: {
     serverTable: 'sessions',
     pushBy: 'coach',
-    // Deleted only by a tidy-up merge (its notes moved to the other session first); the device
-    // hides the row while the delete waits, so a pull cannot bring the merged session back.
+    // Tombstone-deleted, never a day's board session (its id is derived from team and day: a
+    // tombstone would refuse that day's board on every device for good), never an id the server
+    // has not held, only by its author or the head coach, and only once it holds no notes. The
+    // device hides the row while the delete waits, so a pull cannot bring it back. A tidy-up merge
+    // deletes nothing: it moves the notes, and Tidy-up hides a session without notes.
     deletes: 'tombstone',
+    deleteGuard: { by: 'author_or_head_coach', held: true, derivedId: (teamId, s) => (typeof s.day === 'string' ? boardSessionIdFor(teamId, s.day) : null) },
     keptWhileReferenced: { table: 'observations', field: 'sessionId' },
     viewerRows: 'team',
     fields: {

@@ -5,9 +5,12 @@
  * 500); a plain coach moves only their own notes; the old skater's next pull evicts the note and
  * the new skater's brings it, with the acknowledgement cleared; a merge (moves, focus cues, the
  * emptied session deleted) is applied whole, and a session still holding notes is not deleted.
+ * Hostile session deletes: a day's board session (held or not yet), an id the server never held,
+ * and another coach's session are refused with a reason, and leave no tombstone behind.
  */
 import { v7 as uuidv7 } from 'uuid';
 import type { PullReply, PushReply } from '../../shared/schemas/sync';
+import { boardSessionIdFor } from '../../shared/sync-tables';
 import { startTestServer, type TestServer } from './helpers';
 import { device, makeTeam, newObservation, pull, pullAll, pushOk, remove, sessionCreate, upsert, userIdOf, type SyncTeam } from './sync-helpers';
 
@@ -187,5 +190,71 @@ describe('merging two sessions of one day', () => {
     await pushOk(server.app, head, team.teamId, [newer]);
     expect(statuses(await pushOk(server.app, coachDev, team.teamId, [older]))).toEqual(['applied']);
     expect(await row(note.id)).toMatchObject({ skater_id: team.skaterA.id, cue_id: team.cueIds[2], created_by: userIdOf(team.coach), former_skater_ids: [] });
+  });
+});
+
+describe('session deletes a coach cannot use to block a day', () => {
+  const tombstones = async (id: string) =>
+    Number((await server.dataSource.query(`SELECT count(*) AS n FROM sync_tombstones WHERE team_id = $1 AND id = $2`, [team.teamId, id]))[0].n);
+  const sessionRow = async (id: string) =>
+    (await server.dataSource.query(`SELECT day, deleted_at FROM sessions WHERE team_id = $1 AND id = $2`, [team.teamId, id]))[0] as
+      | { day: string; deleted_at: Date | null }
+      | undefined;
+
+  it('refuses a delete of a future day\'s board session the server never held; that day\'s board then works on every device', async () => {
+    const day = '2026-03-02';
+    const board = boardSessionIdFor(team.teamId, day);
+    const coachDev = device(team.coach);
+    const head = device(team.head);
+    // Before the day, by a plain coach and by the head coach, alone and in a batch with a note.
+    const early = await pushOk(server.app, coachDev, team.teamId, [remove(coachDev, 'sessions', board)]);
+    expect(statuses(early)).toEqual(['rejected:validation']);
+    expect(early.results[0].message).toMatch(/No such session on the server: only a session the server holds can be deleted/);
+    const byHead = await pushOk(server.app, head, team.teamId, [remove(head, 'sessions', board), remove(head, 'sessions', uuidv7())]);
+    expect(statuses(byHead)).toEqual(['rejected:validation', 'rejected:validation']);
+    expect(await tombstones(board)).toBe(0);
+    expect(await sessionRow(board)).toBeUndefined();
+
+    // On the day: the head coach's device and the coach's device both write into the board session.
+    const create = sessionCreate(head, board, userIdOf(team.head), day);
+    const note = newObservation(team, coachDev, { sessionId: board });
+    expect(statuses(await pushOk(server.app, head, team.teamId, [create]))).toEqual(['applied']);
+    expect(statuses(await pushOk(server.app, coachDev, team.teamId, [sessionCreate(coachDev, board, userIdOf(team.coach), day), note]))).toEqual([
+      'applied',
+      'applied',
+    ]);
+    expect((await sessionRow(board))?.deleted_at).toBeNull();
+    const pulled = await pullAll(server.app, team.coach, team.teamId);
+    expect(pulled.changes.find((c) => c.id === note.recordId)?.fields).toMatchObject({ sessionId: board });
+  });
+
+  it('refuses a delete of a held board session, even an empty one by its author the head coach', async () => {
+    const day = '2026-03-05';
+    const board = boardSessionIdFor(team.teamId, day);
+    const head = device(team.head);
+    await pushOk(server.app, head, team.teamId, [sessionCreate(head, board, userIdOf(team.head), day)]);
+    const reply = await pushOk(server.app, head, team.teamId, [remove(head, 'sessions', board)]);
+    expect(statuses(reply)).toEqual(['rejected:validation']);
+    expect(reply.results[0].message).toMatch(/board's session of its day .* it is never deleted/);
+    expect((await sessionRow(board))?.deleted_at).toBeNull();
+    // A new note on that day is still taken.
+    expect(statuses(await pushOk(server.app, head, team.teamId, [newObservation(team, head, { sessionId: board })]))).toEqual(['applied']);
+  });
+
+  it('lets only the author or the head coach delete an emptied session that is not a board session', async () => {
+    const head = device(team.head);
+    const coachDev = device(team.coach);
+    const [headSession, coachSession] = [uuidv7(), uuidv7()];
+    await pushOk(server.app, head, team.teamId, [sessionCreate(head, headSession, userIdOf(team.head), '2026-03-07')]);
+    await pushOk(server.app, coachDev, team.teamId, [sessionCreate(coachDev, coachSession, userIdOf(team.coach), '2026-03-07')]);
+    const refused = await pushOk(server.app, coachDev, team.teamId, [remove(coachDev, 'sessions', headSession)]);
+    expect(statuses(refused)).toEqual(['rejected:permission']);
+    expect(refused.results[0].message).toBe('Only its author or the head coach may delete this session');
+    expect((await sessionRow(headSession))?.deleted_at).toBeNull();
+    expect(statuses(await pushOk(server.app, coachDev, team.teamId, [remove(coachDev, 'sessions', coachSession)]))).toEqual(['applied']);
+    expect(statuses(await pushOk(server.app, head, team.teamId, [remove(head, 'sessions', headSession)]))).toEqual(['applied']);
+    expect((await sessionRow(headSession))?.deleted_at).not.toBeNull();
+    // Deleting it again answers the same, without a new tombstone.
+    expect(statuses(await pushOk(server.app, coachDev, team.teamId, [remove(coachDev, 'sessions', headSession)]))).toEqual(['applied']);
   });
 });

@@ -4,7 +4,8 @@
  * owner can change names the server column remembering former owners and filters viewers by
  * owner; a "kept while referenced" rule points at a real reference to the table it protects.
  */
-import { fieldSpec, syncTableNames, tableSpec } from '../../shared/sync-tables';
+import { boardSessionIdFor, fieldSpec, syncTableNames, tableSpec } from '../../shared/sync-tables';
+import { sessionIdFor } from '../../sync/tables/sessions';
 
 describe('tidy-up in the table description', () => {
   it('lets a note move (session, skater, cue editable references) while its author and createdAt stay fixed', () => {
@@ -40,5 +41,17 @@ describe('tidy-up in the table description', () => {
       expect(tableSpec(table).deletes).toBe('tombstone');
     }
     expect(tableSpec('sessions').keptWhileReferenced).toEqual({ table: 'observations', field: 'sessionId' });
+  });
+
+  it('guards session deletes: author or head coach, only a held id, never the board session derived from team and day', () => {
+    const guard = tableSpec('sessions').deleteGuard!;
+    expect({ by: guard.by, held: guard.held }).toEqual({ by: 'author_or_head_coach', held: true });
+    const team = '0193a000-0000-7000-8000-00000000aaaa';
+    // The server's derivation is the device's, for any day.
+    for (const day of ['2026-03-02', '2026-12-31', '2027-01-01']) expect(boardSessionIdFor(team, day)).toBe(sessionIdFor(team, day));
+    expect(guard.derivedId!(team, { day: '2026-03-02' })).toBe(sessionIdFor(team, '2026-03-02'));
+    expect(guard.derivedId!(team, {})).toBeNull();
+    // No other table carries a guard it would not be checked for.
+    expect(syncTableNames.filter((t) => tableSpec(t).deleteGuard)).toEqual(['sessions']);
   });
 });

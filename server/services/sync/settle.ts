@@ -200,6 +200,10 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
   if (op.kind === 'delete' && spec.deletes === 'never') {
     return rejected(op.opId, 'validation', `${op.table} are never deleted (change them instead)`);
   }
+  if (op.kind === 'delete' && spec.deleteGuard) {
+    const refusal = guardDelete(op, record, context);
+    if (refusal) return refusal;
+  }
 
   // Push.3b: the op's shape, its values and its clock values.
   const hlcNames = Object.keys(op.hlc);
@@ -317,6 +321,29 @@ function settleOp(op: Op, state: BatchState, context: SettleContext): OpResult {
   // sender's next pull, and the device replaces its losing local value with the winner.
   record.dirty = true;
   return applied(op.opId);
+}
+
+/**
+ * A delete the table's `deleteGuard` refuses (a tombstone blocks its id for good): an id the
+ * server never held (a repeated delete of a tombstone is still harmless), a record whose id is
+ * the one derived from its fields (a day's board session), or, for a plain coach, someone else's.
+ */
+function guardDelete(op: Op, record: RecordState, context: SettleContext): OpResult | null {
+  const guard = tableSpec(op.table).deleteGuard!;
+  const name = singular(op.table);
+  if (record.deletedAt) return null;
+  if (guard.held && !record.exists) {
+    return rejected(op.opId, 'validation', `No such ${name} on the server: only a ${name} the server holds can be deleted (nothing was deleted)`);
+  }
+  const derived = guard.derivedId?.(context.teamId ?? '', record.values);
+  if (derived && derived === op.recordId) {
+    return rejected(op.opId, 'validation', `This is the board's ${name} of its day (its id is derived from team and day): it is never deleted`);
+  }
+  const authorField = authorFieldOf(op.table);
+  if (guard.by === 'author_or_head_coach' && context.caller.role !== 'head_coach' && authorField && record.values[authorField] !== context.caller.userId) {
+    return rejected(op.opId, 'permission', `Only its author or the head coach may delete this ${name}`);
+  }
+  return null;
 }
 
 /**
