@@ -6,6 +6,7 @@
  */
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { deviceStore, type NoteFix } from '../sync';
+export { mayMergeSessions, mergeKeeps } from '../sync/tables/tidy';
 import { boardKeys } from './board';
 import { useActiveMembership, useSession } from './session';
 import { notifyLocalChange } from './sync-status';

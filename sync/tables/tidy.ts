@@ -1,7 +1,8 @@
 /**
  * Tidy-up (the evening review): the sessions the device holds, day by day, with their notes, and
  * the changes a coach makes to them after the ice: a note's mark, cue, text and shared switch, a
- * note moved to another skater, and two sessions of one day merged into one. Every change is a
+ * note moved to another skater, and two sessions of one day (or neighbouring days) merged into one
+ * (the emptied one is left in place, never deleted). Every change is a
  * row write plus its outbox entry in ONE device transaction (a refusal half way leaves nothing
  * written), and goes to the server like the board's own edits.
  *
@@ -44,11 +45,10 @@ const SESSION_SELECT = `SELECT id, team_id, ${selectColumns('sessions')} FROM se
  * its live notes, newest first. `days` bounds how many days come back (the most recent ones).
  */
 export async function listTidySessions(ctx: StoreContext, teamId: string, days = 60): Promise<TidySession[]> {
-  // A session only this device knows, with no notes and nothing queued, is a board that was
-  // opened and never used (it joins the outbox with its first note or edit): not listed.
-  const used = `deleted = 0 AND (synced = 1
-      OR EXISTS (SELECT 1 FROM observations o WHERE o.session_id = sessions.id AND o.deleted = 0)
-      OR EXISTS (SELECT 1 FROM outbox x WHERE x.tbl = 'sessions' AND x.record_id = sessions.id))`;
+  // Only sessions holding live notes: a board opened and never used, and a session emptied by a
+  // merge (never deleted, see mergeSessions), are not listed; a note arriving later in the
+  // emptied one lists it again.
+  const used = `deleted = 0 AND EXISTS (SELECT 1 FROM observations o WHERE o.session_id = sessions.id AND o.deleted = 0)`;
   const sessionRows = await ctx.db.all<Record<string, SqlValue>>(
     `${SESSION_SELECT} WHERE team_id = ? AND ${used}
        AND day IN (SELECT DISTINCT day FROM sessions WHERE team_id = ? AND ${used} ORDER BY day DESC LIMIT ?)
@@ -123,13 +123,39 @@ export async function fixNote(ctx: StoreContext, id: string, userId: string, fix
   });
 }
 
+/** Two days (YYYY-MM-DD) apart by exactly one calendar day. */
+function neighbouringDays(a: string, b: string): boolean {
+  const ms = (day: string) => Date.UTC(Number(day.slice(0, 4)), Number(day.slice(5, 7)) - 1, Number(day.slice(8, 10)));
+  return Math.abs(ms(a) - ms(b)) === 86_400_000;
+}
+
+type MergeSide = Pick<TidySession, 'id' | 'day' | 'createdAt' | 'boardSession'>;
+
 /**
- * Merges two sessions of the same day into one: every note of the one ends up in the other, the
- * focus cues are united (at most six; the kept session's own first), and the emptied session is
- * deleted. Which one stays: the board's session for that day (every device writes there), else
- * the one made first. A plain coach may merge only when every moving note is theirs (the head
- * coach any); a session merged into itself, or two of different days, is refused. One device
- * transaction: all of it or nothing.
+ * Which of two sessions a merge keeps (the other is emptied): the board's session of its day
+ * (every device writes there), else the earlier day (a session that ran past midnight on one
+ * device), else the one made first. Pure: the UI says which before the coach confirms.
+ */
+export function mergeKeeps<T extends MergeSide>(a: T, b: T): { kept: T; emptied: T } {
+  const order = (x: MergeSide, y: MergeSide) =>
+    Number(y.boardSession) - Number(x.boardSession) || x.day.localeCompare(y.day) || x.createdAt.localeCompare(y.createdAt) || x.id.localeCompare(y.id);
+  return order(a, b) <= 0 ? { kept: a, emptied: b } : { kept: b, emptied: a };
+}
+
+/** Which two sessions may be merged: the same day or neighbouring days, never one with itself. */
+export function mayMergeSessions(a: Pick<TidySession, 'id' | 'day'>, b: Pick<TidySession, 'id' | 'day'>): boolean {
+  return a.id !== b.id && (a.day === b.day || neighbouringDays(a.day, b.day));
+}
+
+/**
+ * Merges two sessions of one day or of neighbouring days: every note of the emptied one moves to
+ * the kept one (`mergeKeeps`) and the focus cues are united (at most six; the kept session's own
+ * first). The emptied session is NOT deleted: a day's board session has an id derived from team
+ * and day, and its tombstone would refuse that day's board on every device for good (the server
+ * refuses such a delete, shared/sync-tables.ts `deleteGuard`). Left empty, it is hidden by
+ * listTidySessions, and listed again if a note arrives in it later (a device that had not synced
+ * yet): the note is never lost. A plain coach may merge only when every moving note is theirs
+ * (the head coach any). One device transaction: all of it or nothing.
  */
 export function mergeSessions(
   ctx: StoreContext,
@@ -144,10 +170,9 @@ export function mergeSessions(
     const a = await liveSession(ctx, aId);
     const b = await liveSession(ctx, bId);
     if (!a || !b || a.teamId !== teamId || b.teamId !== teamId) throw new StoreError('That session no longer exists');
-    if (a.day !== b.day) throw new StoreError('Only two sessions of the same day can be merged');
-    const board = sessionIdFor(teamId, a.day);
-    const keepA = a.id === board || (b.id !== board && (a.createdAt < b.createdAt || (a.createdAt === b.createdAt && a.id < b.id)));
-    const [kept, removed] = keepA ? [a, b] : [b, a];
+    if (!mayMergeSessions(a, b)) throw new StoreError('Only two sessions of the same day or of neighbouring days can be merged');
+    const side = (s: BoardSession) => ({ id: s.id, day: s.day, createdAt: s.createdAt, boardSession: s.id === sessionIdFor(teamId, s.day) });
+    const [kept, removed] = mergeKeeps(side(a), side(b)).kept.id === a.id ? [a, b] : [b, a];
     const moving = (
       await ctx.db.all<Record<string, SqlValue>>(`${OBS_SELECT} WHERE session_id = ? AND deleted = 0 ORDER BY created_at, id`, [removed.id])
     ).map((row) => decodeRow<Observation>('observations', row));
@@ -165,18 +190,7 @@ export function mergeSessions(
     if (JSON.stringify(focus) !== JSON.stringify(kept.focusCueIds)) {
       await queueEdit(ctx, { teamId, userId, table: 'sessions', recordId: kept.id, fields: { focusCueIds: focus }, previous: { focusCueIds: kept.focusCueIds } });
     }
-    const [{ sent }] = await ctx.db.all<{ sent: number }>(
-      `SELECT (SELECT synced FROM sessions WHERE id = ?) + (SELECT count(*) FROM outbox WHERE tbl = 'sessions' AND record_id = ?) AS sent`,
-      [removed.id, removed.id],
-    );
-    if (sent === 0) {
-      // Never left this device and nothing queued: it goes without a trace.
-      await ctx.db.run(`DELETE FROM sessions WHERE id = ?`, [removed.id]);
-    } else {
-      await ctx.db.run(`UPDATE sessions SET deleted = 1 WHERE id = ?`, [removed.id]);
-      await ctx.enqueue({ teamId, userId, table: 'sessions', recordId: removed.id, kind: 'delete', fields: {}, hlc: ctx.tick() });
-    }
-    ctx.sessionsQueued.delete(removed.id);
     return { kept: kept.id, removed: removed.id, moved: moving.length };
   });
 }
+

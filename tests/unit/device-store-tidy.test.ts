@@ -1,6 +1,7 @@
 /**
  * Tidy-up on the device (sync/tables/tidy.ts over sql.js): fixing a note's mark, cue and words,
- * moving it to another skater, merging two sessions of one day. Each change is its row plus its
+ * moving it to another skater, merging two sessions of one day or of neighbouring days (the
+ * emptied one is left in place, never deleted, and listed again if a note arrives in it). Each change is its row plus its
  * outbox entry in one transaction; a refused change (another coach's note, a skater of another
  * team, a merge into itself, a failing write half way) leaves the device exactly as it was.
  */
@@ -149,17 +150,21 @@ describe('the sessions by day', () => {
     expect(list.find((s) => s.id === second.id)!.boardSession).toBe(false);
   });
 
-  it('leaves out a board opened and never used (no notes, nothing queued), and shows it once it is', async () => {
+  it('leaves out a session without notes (a board opened and never used, even with a title), and shows it once it holds one', async () => {
     const { store } = await openStore();
     const opened = await store.startSession(TEAM, HEAD, '2026-12-03');
     expect((await store.listTidySessions(TEAM)).map((s) => s.id)).not.toContain(opened.id);
     await store.updateSession(opened.id, HEAD, { title: 'Pairs' });
-    expect((await store.listTidySessions(TEAM))[0]).toMatchObject({ id: opened.id, day: '2026-12-03', title: 'Pairs', notes: [] });
+    expect((await store.listTidySessions(TEAM)).map((s) => s.id)).not.toContain(opened.id);
+    const [note] = await store.recordObservations({
+      teamId: TEAM, userId: HEAD, authorName: 'Marit Hoek', sessionId: opened.id, skaterIds: [SEM], cueId: start.id, mark: 'good',
+    });
+    expect((await store.listTidySessions(TEAM))[0]).toMatchObject({ id: opened.id, day: '2026-12-03', title: 'Pairs', notes: [expect.objectContaining({ id: note.id })] });
   });
 });
 
-describe('merging two sessions of one day', () => {
-  it('moves every note into the board\'s session, unites the focus cues and deletes the emptied one', async () => {
+describe('merging two sessions', () => {
+  it('moves every note into the board\'s session and unites the focus cues; the emptied one is left (hidden), never deleted', async () => {
     const { store, board, note } = await openStore();
     await store.updateSession(board.id, HEAD, { focusCueIds: [curve.id] });
     const second = await pullSecondSession(store, HEAD, [
@@ -178,18 +183,57 @@ describe('merging two sessions of one day', () => {
     const queued = await ops(store);
     for (const id of second.ids) expect(queued).toContainEqual({ table: 'observations', recordId: id, kind: 'upsert', fields: { sessionId: board.id } });
     expect(queued).toContainEqual({ table: 'sessions', recordId: board.id, kind: 'upsert', fields: { focusCueIds: [curve.id, start.id] } });
-    expect(queued[queued.length - 1]).toEqual({ table: 'sessions', recordId: second.id, kind: 'delete', fields: {} });
-    // The moves are queued before the delete, and the kept session before the moves.
+    // No session delete is queued (a tombstone of a board session would block its day for good).
+    expect(queued.filter((o) => o.kind === 'delete')).toEqual([]);
+    expect(await store.getSession(second.id)).toMatchObject({ id: second.id, day: DAY });
+    // The kept session is queued before the moves.
     const order = queued.map((o) => `${o.table}:${o.recordId}:${o.kind}`);
     expect(order.indexOf(`sessions:${board.id}:upsert`)).toBeLessThan(order.indexOf(`observations:${second.ids[0]}:upsert`));
   });
 
-  it('refuses a session merged into itself, two different days, and a plain coach moving another coach\'s notes', async () => {
+  it('a note that arrives later in the merged-away session (a device that had not synced) shows there: the session is listed again', async () => {
+    const { store, board, note } = await openStore();
+    const second = await pullSecondSession(store, HEAD, [{ skaterId: SEM, createdBy: HEAD }]);
+    await store.mergeSessions(TEAM, HEAD, board.id, second.id, 'head_coach');
+    expect((await store.listTidySessions(TEAM)).map((s) => s.id)).toEqual([board.id]);
+    // A coach's device took a note in that session offline; the next pull brings it.
+    const late = uuidv7();
+    await applyPullPage(store, TEAM, page([{
+      table: 'observations', id: late, serverSeq: ++seq,
+      fields: {
+        sessionId: second.id, skaterId: FENNA, cueId: curve.id, mark: 'needs_work', note: 'late one', noteShared: false,
+        createdAt: '2026-12-02T09:30:00.000Z', createdBy: COACH, authorName: 'Jelle Vink', acknowledgedAt: null,
+      },
+    }]));
+    const list = await store.listTidySessions(TEAM);
+    expect(list.map((s) => s.id).sort()).toEqual([board.id, second.id].sort());
+    expect(list.find((s) => s.id === second.id)!.notes.map((n) => n.id)).toEqual([late]);
+    expect(list.find((s) => s.id === board.id)!.notes.map((n) => n.id).sort()).toEqual([note.id, ...second.ids].sort());
+    // And it can be merged again, the same way.
+    expect(await store.mergeSessions(TEAM, HEAD, second.id, board.id, 'head_coach')).toEqual({ kept: board.id, removed: second.id, moved: 1 });
+    expect((await store.listTidySessions(TEAM)).map((s) => s.id)).toEqual([board.id]);
+  });
+
+  it('merges a session that ran past midnight into the day before: the earlier day\'s board session is kept', async () => {
+    const { store, board, note } = await openStore();
+    const next = await store.startSession(TEAM, COACH, '2026-12-03');
+    const [after] = await store.recordObservations({
+      teamId: TEAM, userId: COACH, authorName: 'Jelle Vink', sessionId: next.id, skaterIds: [SEM], cueId: start.id, mark: 'good',
+    });
+    expect(next.id).toBe(sessionIdFor(TEAM, '2026-12-03'));
+    expect(await store.mergeSessions(TEAM, COACH, next.id, board.id, 'coach')).toEqual({ kept: board.id, removed: next.id, moved: 1 });
+    const list = await store.listTidySessions(TEAM);
+    expect(list.map((s) => s.id)).toEqual([board.id]);
+    expect(list[0].notes.map((n) => n.id).sort()).toEqual([note.id, after.id].sort());
+    expect((await ops(store)).filter((o) => o.kind === 'delete')).toEqual([]);
+  });
+
+  it('refuses a session merged into itself, two days apart, and a plain coach moving another coach\'s notes', async () => {
     const { store, board } = await openStore();
     const count = (await store.listOutbox()).length;
     await expect(store.mergeSessions(TEAM, HEAD, board.id, board.id, 'head_coach')).rejects.toThrow('A session cannot be merged into itself');
-    const other = await store.startSession(TEAM, HEAD, '2026-12-01');
-    await expect(store.mergeSessions(TEAM, HEAD, board.id, other.id, 'head_coach')).rejects.toThrow('Only two sessions of the same day');
+    const other = await store.startSession(TEAM, HEAD, '2026-11-30');
+    await expect(store.mergeSessions(TEAM, HEAD, board.id, other.id, 'head_coach')).rejects.toThrow('Only two sessions of the same day or of neighbouring days can be merged');
     const second = await pullSecondSession(store, HEAD, [{ skaterId: SEM, createdBy: HEAD }]);
     await expect(store.mergeSessions(TEAM, COACH, board.id, second.id, 'coach')).rejects.toThrow(/Only the head coach may merge these sessions/);
     expect((await store.listOutbox()).length).toBe(count);
