@@ -19,7 +19,8 @@
  * The verdict rests on the marks; the lap times are shown beside it as figures, never folded in.
  *
  * Related lap times: the skater's most-timed distance (track and distance with the most finished,
- * fully timed runs in the weeks asked for), and per week the mean lap time of those runs, the
+ * fully timed runs in the weeks asked for and the four follow-up weeks after the last of them, the
+ * same runs the follow-up weeks' laps come from), and per week the mean lap time of those runs, the
  * first section (the opener, or the standing-start first lap) left out, with the number of runs.
  * Laps come from shared/timing.ts (runResult, the same rule as the CSV, the weekly sheet and the
  * lap chart); nothing here redoes that arithmetic.
@@ -113,7 +114,7 @@ export interface TimedRun {
 export interface LapBasis {
   distanceM: number;
   track: Track;
-  /** Fully timed runs at this distance in the weeks looked at. */
+  /** Fully timed runs at this distance in the weeks asked for plus the four follow-up weeks after them. */
   runs: number;
 }
 
@@ -135,8 +136,10 @@ export function lapsAfterOpener(run: Pick<TimedRun, 'distanceM' | 'track' | 'cro
 }
 
 /**
- * The most-timed distance among fully timed runs with at least one lap after the first section;
- * a tie goes to the shorter distance, then long track. Null when there is none.
+ * The most-timed distance among the complete runs given that have at least one lap after the first
+ * section; a tie goes to the shorter distance, then long track. Null when there is none. The server
+ * passes the runs of the weeks asked for plus the FOLLOW_UP_WEEKS after the last of them (the same
+ * runs the follow-up weeks' laps come from), so that is what `runs` in the reply counts.
  */
 export function lapBasisOf(runs: readonly TimedRun[]): LapBasis | null {
   const tally = new Map<string, LapBasis>();

@@ -12,23 +12,16 @@
  * Private notes are in the export: they are the coaches' own notes, and only coaches export.
  */
 import { pipeline } from 'node:stream/promises';
-import { Router, type Request } from 'express';
+import { Router } from 'express';
 import type { DataSource } from 'typeorm';
-import { z } from 'zod';
 import { exportQuerySchema, sheetQuerySchema } from '../../shared/schemas/review-export';
 import { requireTeamRole, requireUser } from '../lib/auth';
-import { notFound, parse } from '../lib/errors';
+import { parse } from '../lib/errors';
 import { logger } from '../lib/logger';
 import { assertSkaterVisible, teamTimeZone, viewerOf } from '../services/review/access';
 import { assertSkatersInTeam, coalesce, csvWriter, exportColumns, exportRecords, weeklySheet } from '../services/review/export';
+import { skaterIdOf } from '../services/review/path-ids';
 import { singleValued } from '../services/review/query-string';
-
-function skaterIdOf(req: Request): string {
-  const id = z.uuid().safeParse(req.params.skaterId);
-  if (!id.success) throw notFound('No such skater in this team');
-  // Lower case, as the database writes it: a skater's own id in upper case is still their own.
-  return id.data.toLowerCase();
-}
 
 export function exportRoutes(dataSource: DataSource) {
   const router = Router();

@@ -14,25 +14,17 @@
  * strings are parsed with shared/schemas/review-follow-up.ts: a bad one is a 400 naming the field.
  * Weeks are ISO weeks in the team's time zone; no range asked for = the last 8 weeks.
  */
-import { Router, type Request } from 'express';
+import { Router } from 'express';
 import type { DataSource } from 'typeorm';
-import { z } from 'zod';
 import { reviewGroupSchema } from '../../shared/schemas/review';
 import { followUpQuerySchema, runsByWeekQuerySchema } from '../../shared/schemas/review-follow-up';
 import { requireTeamRole, requireUser } from '../lib/auth';
 import { notFound, parse } from '../lib/errors';
 import { assertGroupExists, assertSkaterVisible, teamTimeZone, viewerOf } from '../services/review/access';
 import { groupFollowUp, skaterFollowUp, skaterRunsByWeek } from '../services/review/follow-up';
+import { skaterIdOf } from '../services/review/path-ids';
 import { singleValued } from '../services/review/query-string';
 import { resolveRange } from '../services/review/range';
-
-/** A skater id from the path: one that is not a UUID names nobody in this team (404). */
-function skaterIdOf(req: Request): string {
-  const id = z.uuid().safeParse(req.params.skaterId);
-  if (!id.success) throw notFound('No such skater in this team');
-  // Lower case, as the database writes it: a skater's own id in upper case is still their own.
-  return id.data.toLowerCase();
-}
 
 export function followUpRoutes(dataSource: DataSource) {
   const router = Router();

@@ -9,23 +9,15 @@
  * their own; a guardian the linked skater; any other id, and another team's, is 404. The query is
  * parsed with shared/schemas/review-laps.ts: a bad one is a 400 naming the field.
  */
-import { Router, type Request } from 'express';
+import { Router } from 'express';
 import type { DataSource } from 'typeorm';
-import { z } from 'zod';
 import { lapTrendQuerySchema } from '../../shared/schemas/review-laps';
 import { requireTeamRole, requireUser } from '../lib/auth';
-import { notFound, parse } from '../lib/errors';
+import { parse } from '../lib/errors';
 import { assertSkaterVisible, teamTimeZone, viewerOf } from '../services/review/access';
 import { lapTrend } from '../services/review/laps';
+import { skaterIdOf } from '../services/review/path-ids';
 import { singleValued } from '../services/review/query-string';
-
-/** A skater id from the path: one that is not a UUID names nobody in this team (404). */
-function skaterIdOf(req: Request): string {
-  const id = z.uuid().safeParse(req.params.skaterId);
-  if (!id.success) throw notFound('No such skater in this team');
-  // Lower case, as the database writes it: a skater's own id in upper case is still their own.
-  return id.data.toLowerCase();
-}
 
 export function lapTrendRoutes(dataSource: DataSource) {
   const router = Router();

@@ -25,16 +25,9 @@ import { requireTeamRole, requireUser } from '../lib/auth';
 import { notFound, parse } from '../lib/errors';
 import { assertGroupExists, assertSkaterVisible, teamTimeZone, viewerOf } from '../services/review/access';
 import { cellNotes, groupMatrix, skaterMatrix, weekGrid } from '../services/review/queries';
+import { skaterIdOf } from '../services/review/path-ids';
 import { singleValued } from '../services/review/query-string';
 import { resolveRange, weekRange } from '../services/review/range';
-
-/** A skater id from the path: one that is not a UUID names nobody in this team (404). */
-function skaterIdOf(req: Request): string {
-  const id = z.uuid().safeParse(req.params.skaterId);
-  if (!id.success) throw notFound('No such skater in this team');
-  // Lower case, as the database writes it: a skater's own id in upper case is still their own.
-  return id.data.toLowerCase();
-}
 
 function groupIdOf(req: Request) {
   const id = reviewGroupSchema.safeParse(req.params.groupId);

@@ -22,6 +22,7 @@ import { formatRaceTime, runResult, type Track } from '../../../shared/timing';
 import { weekStartDay } from '../../../shared/weeks';
 import { badRequest } from '../../lib/errors';
 import { weekRange } from './range';
+import { localMidnight } from './sql';
 
 /** Rows per database read. */
 export const EXPORT_PAGE = 5000;
@@ -112,8 +113,6 @@ interface ObservationRow {
   cue_id: string;
   session_id: string;
 }
-
-const localMidnight = (param: string) => `(${param}::date::timestamp AT TIME ZONE $2)`;
 
 /**
  * $1 team, $2 zone, $3 first day, $4 the day after the last, $5 skater ids or null, [$6 $7 the

@@ -21,8 +21,8 @@ import type { ReviewGroup } from '../../../shared/schemas/review';
 import type { FollowUpItem, FollowUpReply, GroupFollowUpReply, RunsByWeekReply, WeekRun } from '../../../shared/schemas/review-follow-up';
 import { addIsoWeeks, weekOf } from '../../../shared/weeks';
 import { weekRange, weeksAfter, type WeekRange } from './range';
+import { groupMembers, WEEK } from './sql';
 
-const WEEK = `'IYYY-"W"IW'`;
 
 interface MarkRow {
   cue_id: string;
@@ -95,6 +95,7 @@ const timed = (runs: RunRow[]): TimedRun[] =>
 /** One skater's stressed (cue, week) pairs in `range` from their counts and runs (shared/follow-up.ts decides). */
 function assemble(marks: MarkRow[], runs: RunRow[], range: WeekRange, threshold: number, currentWeek: string) {
   const timedRuns = timed(runs);
+  // The runs reach FOLLOW_UP_WEEKS past the range (reachOf): the basis counts those weeks too.
   const basis = lapBasisOf(timedRuns);
   const inRange = new Set(range.weeks);
 
@@ -177,14 +178,6 @@ export async function skaterFollowUp(
   return { timeZone, from: range.from, to: range.to, threshold, currentWeek, ...assemble(marks, runs, range, threshold, currentWeek) };
 }
 
-/** Live (not retired, not deleted) skaters of a group ('all': the team; 'none': in no group); $1 team, $2 group id or null. */
-function membersSql(group: ReviewGroup): { sql: string; param: string | null } {
-  const base = `SELECT s.id, s.display_name FROM skaters s WHERE s.team_id = $1 AND s.deleted_at IS NULL AND s.retired_at IS NULL`;
-  if (group === 'all') return { sql: `${base} AND $2::uuid IS NULL`, param: null };
-  if (group === 'none') return { sql: `${base} AND s.group_id IS NULL AND $2::uuid IS NULL`, param: null };
-  return { sql: `${base} AND s.group_id = $2::uuid`, param: group };
-}
-
 /**
  * The same for every live skater of a group (coaches only): one statement counts the marks per
  * skater, cue and week; one reads the members' finished runs; each skater's stressed cues are then
@@ -200,7 +193,7 @@ export async function groupFollowUp(
   now = Date.now(),
 ): Promise<GroupFollowUpReply> {
   const reach = reachOf(range);
-  const members = membersSql(group);
+  const members = groupMembers(group);
   const [people, marks, runs] = await Promise.all([
     dataSource.query(`${members.sql} ORDER BY s.display_name COLLATE "und-x-icu", s.id`, [teamId, members.param]) as Promise<
       { id: string; display_name: string }[]

@@ -19,8 +19,8 @@ import type { Track } from '../../../shared/schemas/clock';
 import { distanceLayout, paceSchedule, runResult } from '../../../shared/timing';
 import { addIsoWeeks, defaultWeekRange, isIsoWeek, weekOf } from '../../../shared/weeks';
 import { weekRange, type WeekRange } from './range';
+import { WEEK } from './sql';
 
-const WEEK = `'IYYY-"W"IW'`;
 const FIRST_WEEK = '2000-W01';
 const LAST_WEEK = weekOf(Date.UTC(2100, 11, 28), 'UTC');
 

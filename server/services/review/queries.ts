@@ -19,18 +19,7 @@ import type { ReviewCell, ReviewCue, ReviewGroup, ReviewMatrix, ReviewRow, Revie
 import { trendOf } from './trend';
 import type { Viewer } from './access';
 import type { WeekRange } from './range';
-
-const WEEK = `'IYYY-"W"IW'`;
-/** Local midnight of a day ($n::date) in the zone ($2) as an instant. */
-const localMidnight = (param: string) => `(${param}::date::timestamp AT TIME ZONE $2)`;
-
-/** Skaters of a group the review sums over: live (not retired, not deleted) ones; $2 is the group id. */
-function groupMembers(group: ReviewGroup): { sql: string; param: string | null } {
-  const base = `SELECT s.id, s.display_name FROM skaters s WHERE s.team_id = $1 AND s.deleted_at IS NULL AND s.retired_at IS NULL`;
-  if (group === 'all') return { sql: `${base} AND $2::uuid IS NULL`, param: null };
-  if (group === 'none') return { sql: `${base} AND s.group_id IS NULL AND $2::uuid IS NULL`, param: null };
-  return { sql: `${base} AND s.group_id = $2::uuid`, param: group };
-}
+import { groupMembers, localMidnight, WEEK } from './sql';
 
 interface MatrixRow {
   cue_id: string;
