@@ -4,10 +4,11 @@
  * mark, words and author; another coach's note read only with the reason; a fix (cue, skater,
  * words) handed to the store as one change and followed by a sync; a delete that asks first and
  * deletes one note however often the confirm is tapped; a merge offered only for another session
- * of the same day; the store's refusal shown in words.
+ * of the same day or the day beside it, saying which session is kept, and run once however often
+ * its confirm is tapped; the store's refusal shown in words.
  */
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { render, waitFor } from '@testing-library/react-native';
+import { act, render, waitFor } from '@testing-library/react-native';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 
 import { TidySection } from '../../components/review/tidy/tidy-section';
@@ -163,7 +164,7 @@ describe('tidy-up', () => {
     expect(mockStore.removeObservations).toHaveBeenCalledTimes(1);
   });
 
-  it('offers a merge only with another session of the same day, asks first, then merges', async () => {
+  it('offers a merge only with another session of the same day, asks first saying which is kept, then merges', async () => {
     signIn(HEAD, 'head_coach');
     renderSection(false);
     await shown('tidy-merge');
@@ -171,6 +172,10 @@ describe('tidy-up', () => {
     expect(queryByTestIdWeb(`tidy-merge-${S_OLD}`)).toBeNull();
     await tap(`tidy-merge-${S_FAR}`);
     await shown(`tidy-merge-confirm-${S_FAR}`);
+    // The board's session (Near side) is kept, whichever side the merge is started from.
+    expect(text(`tidy-merge-question-${S_FAR}`)).toBe(
+      'Merge these two sessions? The notes of “Far side · Oval” move into “Near side · Oval”; “Far side · Oval” is left empty.',
+    );
     await tap(`tidy-merge-yes-${S_FAR}`);
     await waitFor(() => expect(mockStore.mergeSessions).toHaveBeenCalledWith(TEAM, HEAD, S_NEAR, S_FAR, 'head_coach'));
     // The Monday session has no partner: no merge offered there.
@@ -187,5 +192,46 @@ describe('tidy-up', () => {
     await shown('tidy-message-error');
     expect(text('tidy-message-error')).toMatch(/Only the head coach may merge these sessions/);
     expect(mockRunSync).not.toHaveBeenCalled();
+  });
+
+  it('a double tap on Merge merges once', async () => {
+    signIn(HEAD, 'head_coach');
+    let finish!: (v: unknown) => void;
+    mockStore.mergeSessions.mockImplementation(() => new Promise((resolve) => (finish = resolve)));
+    renderSection();
+    await shown(`tidy-merge-${S_FAR}`);
+    await tap(`tidy-merge-${S_FAR}`);
+    // Both taps reach the button before it re-renders (a gloved double tap).
+    let node: ReturnType<typeof getByTestIdWeb> | null = getByTestIdWeb(`tidy-merge-yes-${S_FAR}`);
+    while (node && (typeof node.type === 'string' || typeof node.props.onPress !== 'function')) node = node.parent;
+    const press = node!.props.onPress as () => void;
+    await act(async () => {
+      press();
+      press();
+    });
+    await waitFor(() => expect(mockStore.mergeSessions).toHaveBeenCalled());
+    finish({ kept: S_NEAR, removed: S_FAR, moved: 1 });
+    await shown('tidy-message-success');
+    expect(mockStore.mergeSessions).toHaveBeenCalledTimes(1);
+  });
+
+  it('offers a merge with a session of the day beside it (past midnight), naming the days, and keeps the earlier day\'s board session', async () => {
+    signIn(HEAD, 'head_coach');
+    const S_NEXT = '0190a0b0-0000-7000-8000-0000000000d4';
+    mockStore.listTidySessions.mockResolvedValue([
+      session(S_NEXT, '2026-12-03', COACH, 'Late block', [note(N_FAR, S_NEXT, COACH, 'Jelle Vink')], true),
+      session(S_NEAR, '2026-12-02', HEAD, 'Near side', [note(N_HEAD, S_NEAR, HEAD, 'Marit Hoek')], true),
+      session(S_OLD, '2026-11-30', HEAD, 'Monday', [note(N_MINE, S_OLD, HEAD, 'Marit Hoek')], true),
+    ]);
+    mockStore.mergeSessions.mockResolvedValue({ kept: S_NEAR, removed: S_NEXT, moved: 1 });
+    renderSection();
+    await shown(`tidy-merge-${S_NEAR}`);
+    expect(queryByTestIdWeb(`tidy-merge-${S_OLD}`)).toBeNull();
+    await tap(`tidy-merge-${S_NEAR}`);
+    const question = text(`tidy-merge-question-${S_NEAR}`);
+    expect(question).toMatch(/^Merge these two sessions\? The notes of “Late block · Oval” \(.+\) move into “Near side · Oval” \(.+\); “Late block · Oval” \(.+\) is left empty\.$/);
+    await tap(`tidy-merge-yes-${S_NEAR}`);
+    await waitFor(() => expect(mockStore.mergeSessions).toHaveBeenCalledWith(TEAM, HEAD, S_NEXT, S_NEAR, 'head_coach'));
+    await shown('tidy-message-success');
   });
 });

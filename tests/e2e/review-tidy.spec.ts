@@ -122,6 +122,7 @@ test('the head coach fixes a cue, moves a note to another skater, merges two ses
 
   // 3. The two sessions of today become one (asked first).
   await page.getByTestId(`tidy-merge-${near}`).click();
+  await expect(page.getByTestId(`tidy-merge-question-${near}`)).toContainText('The notes of “Far side · Oval” move into “Near side · Oval”; “Far side · Oval” is left empty.');
   await page.getByTestId(`tidy-merge-yes-${near}`).click();
   await expect(page.getByTestId('tidy-message-success')).toContainText('Sessions merged');
   await expect(page.locator('[data-testid^="tidy-session-"]')).toHaveCount(1);
@@ -135,7 +136,9 @@ test('the head coach fixes a cue, moves a note to another skater, merges two ses
   const notes = pulled.changes.filter((c) => c.table === 'observations');
   // Neither is the board's own session for today: the one made first (near) is kept.
   expect(notes.map((n) => n.fields.sessionId)).toEqual([near, near, near]);
-  expect(pulled.tombstones.filter((t) => t.table === 'sessions')).toEqual([expect.objectContaining({ id: far })]);
+  // The emptied session is left in place (never deleted): no session tombstone; Tidy-up hides it.
+  expect(pulled.tombstones.filter((t) => t.table === 'sessions')).toEqual([]);
+  expect(pulled.changes.some((c) => c.table === 'sessions' && c.id === far)).toBe(true);
   expect(notes.find((n) => n.id === wrongSkater)?.fields).toMatchObject({ skaterId: berend.id, createdBy: headId, createdAt });
   expect(notes.find((n) => n.id === misTap)?.fields).toMatchObject({ cueId: cues[0].id });
 

@@ -3,18 +3,18 @@
  * this device (coaches hold the whole team's sessions and notes, so it works offline), and beside
  * them (stacked on a phone) the picked session's notes. A coach fixes a mis-tap (mark, cue,
  * delete), moves a note to another skater, adds the evening's longer words and the shared switch,
- * and merges two sessions of one day. Every change is written on the device with its outbox entry
+ * and merges two sessions of one day or of neighbouring days (the emptied one is left, hidden). Every change is written on the device with its outbox entry
  * (store/tidy.ts) and goes with the next sync, like a tap on the board; a sync is started at once.
  */
 import { useQuery } from '@tanstack/react-query';
-import { useMemo, useState } from 'react';
+import { useMemo, useRef, useState } from 'react';
 import { Pressable, StyleSheet, View } from 'react-native';
 
 import { coachShortName, mayChangeNote } from '../../../shared/authors';
 import { cuesOnDevice } from '../../../store/board';
 import { useActiveMembership, useSession } from '../../../store/session';
 import { runSync } from '../../../store/sync-status';
-import { useTidyChange, useTidySessions } from '../../../store/tidy';
+import { mayMergeSessions, mergeKeeps, useTidyChange, useTidySessions } from '../../../store/tidy';
 import type { TidySession } from '../../../sync';
 import { formatDay } from '../../board/format';
 import { Banner, Button, Card, Heading, Text, colors, plural, spacing, tapTarget } from '../../ui';
@@ -43,6 +43,8 @@ export function TidySection({ teamId, skaters, wide }: ReviewSectionProps) {
   const [picked, setPicked] = useState<string | null>(null);
   const [message, setMessage] = useState<{ kind: 'success' | 'error'; text: string } | null>(null);
   const [merging, setMerging] = useState<string | null>(null);
+  // A second tap (a gloved double tap) before the first merge settles does nothing.
+  const mergeRunning = useRef(false);
 
   const list = useMemo(() => sessions.data ?? [], [sessions.data]);
   const current = list.find((s) => s.id === picked) ?? list[0] ?? null;
@@ -87,7 +89,9 @@ export function TidySection({ teamId, skaters, wide }: ReviewSectionProps) {
     );
   }
 
-  const sameDay = current ? list.filter((s) => s.day === current.day && s.id !== current.id) : [];
+  const sameDay = current ? list.filter((s) => mayMergeSessions(current, s)) : [];
+  /** A session named in the merge question (with its day when the two days differ). */
+  const mergeName = (s: TidySession, other: TidySession) => `“${sessionName(s)}”${s.day === other.day ? '' : ` (${formatDay(s.day)})`}`;
 
   const dayList = (
     <View role="list" aria-label="Sessions by day, newest first" style={styles.days} testID="tidy-sessions">
@@ -133,21 +137,29 @@ export function TidySection({ teamId, skaters, wide }: ReviewSectionProps) {
       ) : null}
       {sameDay.length > 0 ? (
         <View style={styles.merge} testID="tidy-merge">
-          <Text>Another session on the same day (two coaches on either side of the ice?):</Text>
-          {sameDay.map((other) =>
-            merging === other.id ? (
+          <Text>Another session of this day or the day beside it (two coaches on either side of the ice, or a session that ran past midnight):</Text>
+          {sameDay.map((other) => {
+            const { kept, emptied } = mergeKeeps(current, other);
+            return merging === other.id ? (
               <View key={other.id} style={styles.row} testID={`tidy-merge-confirm-${other.id}`}>
-                <Text weight="bold">{`Merge “${sessionName(other)}” and “${sessionName(current)}” into one session?`}</Text>
+                <Text weight="bold" testID={`tidy-merge-question-${other.id}`}>
+                  {`Merge these two sessions? The notes of ${mergeName(emptied, kept)} move into ${mergeName(kept, emptied)}; ${mergeName(emptied, kept)} is left empty.`}
+                </Text>
                 <Button
                   label="Merge"
                   disabled={change.isPending}
                   testID={`tidy-merge-yes-${other.id}`}
                   onPress={() => {
+                    if (mergeRunning.current) return;
+                    mergeRunning.current = true;
                     setMerging(null);
                     void apply(() => change.mutateAsync({ kind: 'merge', a: current.id, b: other.id }), 'Sessions merged.')
                       // Show the session that is left, with every note.
-                      .then((kept) => setPicked(kept))
-                      .catch(() => undefined);
+                      .then((left) => setPicked(left))
+                      .catch(() => undefined)
+                      .finally(() => {
+                        mergeRunning.current = false;
+                      });
                   }}
                 />
                 <Button label="Keep both" variant="secondary" testID={`tidy-merge-no-${other.id}`} onPress={() => setMerging(null)} />
@@ -161,8 +173,8 @@ export function TidySection({ teamId, skaters, wide }: ReviewSectionProps) {
                 testID={`tidy-merge-${other.id}`}
                 onPress={() => setMerging(other.id)}
               />
-            ),
-          )}
+            );
+          })}
         </View>
       ) : null}
       {current.notes.length === 0 ? (
