@@ -385,3 +385,30 @@ describe('many rows', () => {
     }
   });
 });
+
+describe('one run, one result (shared/timing.ts runResult) in the CSV, the weekly sheet and the lap chart', () => {
+  it('a finished 500 m with a stray tap after the gun has no finish anywhere, and the chart calls it partial', async () => {
+    const dev = team.headDevice;
+    const b = team.skaterB.id;
+    const stray = uuidv7();
+    await pushOk(server.app, dev, team.teamId, [
+      runCreate(dev, { id: stray, skaterId: b, distanceM: 500, day: '2026-10-20', extra: { startedAt: '2026-10-20T14:00:00.000Z', status: 'finished' } }),
+      crossingCreate(dev, stray, 50),
+      crossingCreate(dev, stray, 10_400),
+      crossingCreate(dev, stray, 37_000),
+    ]);
+    const rows = rowsOf((await exportCsv(team.head, { kind: 'runs', from: '2026-10-19', to: '2026-10-25' }).expect(200)).text);
+    expect(rows.map((r) => [r.run_id, r.finish, r.finish_ms, r.lap_count, r.laps])).toEqual([[stray, '', '', '3', '0.05 10.35 26.60']]);
+
+    const sheet = await request(server.app).get(`/api/teams/${team.teamId}/review/skaters/${b}/sheet`).query({ week: '2026-W43' }).set(team.head.auth).expect(200);
+    expect(sheet.body.runs).toEqual([expect.objectContaining({ id: stray, status: 'finished', finish: null, laps: ['0.05', '10.35', '26.60'] })]);
+
+    const chart = await request(server.app)
+      .get(`/api/teams/${team.teamId}/review/skaters/${b}/laps`)
+      .query({ distanceM: '500', track: 'long', from: '2026-W43', to: '2026-W43' })
+      .set(team.head.auth)
+      .expect(200);
+    expect(chart.body.runs).toEqual([expect.objectContaining({ id: stray, state: 'partial', finishMs: null, lapsMs: [50, 10_350, 26_600] })]);
+    expect(chart.body.bests.finish).toBeNull();
+  });
+});
