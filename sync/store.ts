@@ -384,7 +384,7 @@ export class DeviceStore {
     return tidy.fixNote(this.ctx, id, userId, fix, role);
   }
 
-  /** Merges two sessions of one day: notes moved, focus cues united, the emptied one deleted. */
+  /** Merges two sessions of one day or neighbouring days: notes moved, focus cues united, the emptied one left (never deleted). */
   mergeSessions(teamId: string, userId: string, aId: string, bId: string, role?: Role): Promise<{ kept: string; removed: string; moved: number }> {
     return tidy.mergeSessions(this.ctx, teamId, userId, aId, bId, role);
   }
