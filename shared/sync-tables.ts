@@ -151,7 +151,7 @@ export interface SyncTable {
 /** Fixed namespace for session ids: one board session per team and day, the same id on every device. */
 const SESSION_NAMESPACE = '6f1d4b52-8f0e-4f7c-9a51-3c2d7e1b9a40';
 
-/** The board's session of a team's day (the same id on every device; sync/tables/sessions.ts makes it the same way). */
+/** The board's session of a team's day: the same id on every device (sync/tables/sessions.ts uses it) and on the server. */
 export const boardSessionIdFor = (teamId: string, day: string) => uuidv5(`${teamId}/${day}`, SESSION_NAMESPACE);
 
 const uuid = (name: string) => z.uuid({ error: `${name} must be a UUID` });

@@ -3,15 +3,12 @@
  * day), so two coaches at the same rink write into one session without talking to each other.
  * A session joins the outbox with its first note or edit, never just because a board was opened.
  */
-import { v5 as uuidv5 } from 'uuid';
 import { encodeHlc } from '../../shared/hlc';
+import { boardSessionIdFor } from '../../shared/sync-tables';
 import { boardSessionPatchSchema, type BoardSession, type BoardSessionPatch } from '../../shared/schemas';
 import { decodeRow, insertRecord, selectColumns } from '../fields';
 import { queueEdit, stampRow } from '../outbox';
 import { StoreError, validate, type StoreContext } from '../store-context';
-
-/** Fixed namespace for session ids: one session per team and day, the same id on every device. */
-const SESSION_NAMESPACE = '6f1d4b52-8f0e-4f7c-9a51-3c2d7e1b9a40';
 
 /** The local calendar day (YYYY-MM-DD) of a moment: sessions follow the rink's day, not UTC's. */
 export function localDay(ms: number): string {
@@ -20,7 +17,8 @@ export function localDay(ms: number): string {
   return `${d.getFullYear()}-${pad(d.getMonth() + 1)}-${pad(d.getDate())}`;
 }
 
-export const sessionIdFor = (teamId: string, day: string) => uuidv5(`${teamId}/${day}`, SESSION_NAMESPACE);
+/** The day's board session: the same id on every device and on the server (shared/sync-tables.ts). */
+export const sessionIdFor = boardSessionIdFor;
 
 const SESSION_SELECT = `SELECT id, team_id, ${selectColumns('sessions')} FROM sessions WHERE id = ?`;
 
