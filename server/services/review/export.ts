@@ -115,26 +115,37 @@ interface ObservationRow {
 }
 
 /**
- * $1 team, $2 zone, $3 first day, $4 the day after the last, $5 skater ids or null, [$6 $7 the
- * keyset]. The page's notes are picked first (an index range of ix_observations_export, in
- * order), and only those are joined to their names: joined first, the planner sorted the whole
- * rest of the range for every page.
+ * One page of a keyset read of `table` (alias `a`), live rows of the team in the range of local
+ * days, some skaters or all, ordered by the instant column `at` and the id: $1 team, $2 zone,
+ * $3 first day, $4 the day after the last, $5 skater ids or null, [$6 $7 the keyset]. Picked first
+ * as a MATERIALIZED page (an in-order index range) and only then joined to names by the caller.
+ */
+function keysetPage(table: 'observations' | 'runs', a: string, at: string, after: boolean): string {
+  return `WITH page AS MATERIALIZED (
+    SELECT ${a}.* FROM ${table} ${a}
+     WHERE ${a}.team_id = $1 AND ${a}.deleted_at IS NULL
+       AND ${a}.${at} >= ${localMidnight('$3')} AND ${a}.${at} < ${localMidnight('$4')}
+       AND ($5::uuid[] IS NULL OR ${a}.skater_id = ANY($5::uuid[]))
+       ${after ? `AND ${a}.${at} >= $6::timestamptz AND (${a}.${at}, ${a}.id) > ($6::timestamptz, $7::uuid)` : ''}
+     ORDER BY ${a}.${at}, ${a}.id
+     LIMIT ${EXPORT_PAGE}
+  )`;
+}
+
+/** The instant `at` of a page row as the next page's cursor, and as ISO week, local time and UTC offset in the team's zone ($2). */
+const momentColumns = (a: string, at: string) => `${a}.${at}::text AS cursor_at,
+         to_char(${a}.${at} AT TIME ZONE $2, 'IYYY-"W"IW') AS week,
+         to_char(${a}.${at} AT TIME ZONE $2, 'YYYY-MM-DD"T"HH24:MI:SS') AS local,
+         extract(epoch FROM (${a}.${at} AT TIME ZONE $2) - (${a}.${at} AT TIME ZONE 'UTC'))::int AS offset_s`;
+
+/**
+ * A page of notes over ix_observations_export, joined to their names only after it is picked:
+ * joined first, the planner sorted the whole rest of the range for every page.
  */
 const observationSql = (after: boolean) => `
-  WITH page AS MATERIALIZED (
-    SELECT o.* FROM observations o
-     WHERE o.team_id = $1 AND o.deleted_at IS NULL
-       AND o.created_at >= ${localMidnight('$3')} AND o.created_at < ${localMidnight('$4')}
-       AND ($5::uuid[] IS NULL OR o.skater_id = ANY($5::uuid[]))
-       ${after ? `AND o.created_at >= $6::timestamptz AND (o.created_at, o.id) > ($6::timestamptz, $7::uuid)` : ''}
-     ORDER BY o.created_at, o.id
-     LIMIT ${EXPORT_PAGE}
-  )
+  ${keysetPage('observations', 'o', 'created_at', after)}
   SELECT o.id,
-         o.created_at::text AS cursor_at,
-         to_char(o.created_at AT TIME ZONE $2, 'IYYY-"W"IW') AS week,
-         to_char(o.created_at AT TIME ZONE $2, 'YYYY-MM-DD"T"HH24:MI:SS') AS local,
-         extract(epoch FROM (o.created_at AT TIME ZONE $2) - (o.created_at AT TIME ZONE 'UTC'))::int AS offset_s,
+         ${momentColumns('o', 'created_at')},
          s.display_name AS skater, g.name AS group_name, c.phase, c.label AS cue,
          o.mark, o.note, o.note_shared,
          coalesce(nullif(o.author_name, ''), u.display_name, '') AS coach,
@@ -255,20 +266,9 @@ interface RunRow {
 
 /** The same for runs, over ix_runs_review_started (the page first, then its names and crossings). */
 const runSql = (after: boolean) => `
-  WITH page AS MATERIALIZED (
-    SELECT r.* FROM runs r
-     WHERE r.team_id = $1 AND r.deleted_at IS NULL
-       AND r.started_at >= ${localMidnight('$3')} AND r.started_at < ${localMidnight('$4')}
-       AND ($5::uuid[] IS NULL OR r.skater_id = ANY($5::uuid[]))
-       ${after ? `AND r.started_at >= $6::timestamptz AND (r.started_at, r.id) > ($6::timestamptz, $7::uuid)` : ''}
-     ORDER BY r.started_at, r.id
-     LIMIT ${EXPORT_PAGE}
-  )
+  ${keysetPage('runs', 'r', 'started_at', after)}
   SELECT r.id,
-         r.started_at::text AS cursor_at,
-         to_char(r.started_at AT TIME ZONE $2, 'IYYY-"W"IW') AS week,
-         to_char(r.started_at AT TIME ZONE $2, 'YYYY-MM-DD"T"HH24:MI:SS') AS local,
-         extract(epoch FROM (r.started_at AT TIME ZONE $2) - (r.started_at AT TIME ZONE 'UTC'))::int AS offset_s,
+         ${momentColumns('r', 'started_at')},
          s.display_name AS skater, g.name AS group_name,
          r.distance_m, r.track, r.lane, r.status, r.target_ms, r.stop_reason, r.note,
          coalesce(nullif(r.author_name, ''), u.display_name, '') AS timed_by,
