@@ -24,7 +24,7 @@ import { Client } from 'pg';
 import { v7 as uuidv7 } from 'uuid';
 import { HybridClock } from '../shared/hlc';
 import { SYNC_PULL_MAX_LIMIT, SYNC_PUSH_MAX_OPS, type Op, type PullReply, type PushReply } from '../shared/schemas/sync';
-import { upsertSql } from '../server/services/sync/write';
+import { upsertParams, upsertSql, type Stamped } from '../server/services/sync/write';
 import { api, BASE } from './support';
 
 const DATABASE_URL = process.env.DATABASE_URL;
@@ -50,6 +50,8 @@ interface Team {
   cueIds: string[];
   sessionId: string;
   clock: HybridClock;
+  /** When the team's session was made: the push refuses notes from before the team existed. */
+  createdMs: number;
 }
 
 interface Observation {
@@ -107,10 +109,10 @@ async function newTeam(label: string): Promise<Team> {
   const clientId = uuidv7();
   const team: Team = {
     label, email, token, teamId, userId: signedUp.user.id, clientId, skaterIds, cueIds,
-    sessionId: uuidv7(), clock: new HybridClock(clientId),
+    sessionId: uuidv7(), clock: new HybridClock(clientId), createdMs: Date.now(),
   };
   const hlc = team.clock.now();
-  const createdAt = new Date().toISOString();
+  const createdAt = new Date(team.createdMs).toISOString();
   await push(team, [
     {
       opId: uuidv7(), table: 'sessions', recordId: team.sessionId, kind: 'upsert',
@@ -123,7 +125,8 @@ async function newTeam(label: string): Promise<Team> {
 
 /** `count` observations as a coach taps them at the boards, round the skaters and cues. */
 function observations(team: Team, count: number): Observation[] {
-  const start = Date.now() - count * 1000;
+  // Within half a second after the team was made (a push refuses instants before the team existed).
+  const start = team.createdMs;
   return Array.from({ length: count }, (_, i) => ({
     id: uuidv7(),
     fields: {
@@ -133,7 +136,7 @@ function observations(team: Team, count: number): Observation[] {
       mark: i % 3 === 0 ? 'good' : 'needs_work',
       note: NOTES[i % NOTES.length],
       noteShared: i % 12 === 2,
-      createdAt: new Date(start + i * 1000).toISOString(),
+      createdAt: new Date(start + (i % 500)).toISOString(),
       createdBy: team.userId,
     },
     hlc: team.clock.now(),
@@ -161,24 +164,23 @@ async function rawUpsert(db: Client, team: Team, rows: Observation[]): Promise<M
   let seq = 1_000_000;
   const started = performance.now();
   for (const batch of batches(rows, BATCH)) {
-    const nulls = batch.map(() => null);
-    await db.query(RAW_UPSERT, [
-      team.teamId,
-      batch.map((o) => o.id),
-      batch.map((o) => o.fields.sessionId),
-      batch.map((o) => o.fields.skaterId),
-      batch.map((o) => o.fields.cueId),
-      batch.map((o) => o.fields.mark),
-      batch.map((o) => o.fields.note),
-      batch.map((o) => o.fields.noteShared),
-      batch.map((o) => o.fields.createdAt),
-      batch.map((o) => o.fields.createdBy),
-      nulls,
-      batch.map((o) => JSON.stringify(Object.fromEntries(OBSERVATION_FIELDS.map((f) => [f, o.hlc])))),
-      batch.map(() => seq++),
-      nulls,
-      nulls,
-    ]);
+    // The push's own parameters for these rows (upsertParams), so the raw statement follows the table's description.
+    const stamped: Stamped[] = batch.map((o) => ({
+      record: {
+        table: 'observations',
+        id: o.id,
+        exists: false,
+        values: { ...o.fields, authorName: '', acknowledgedAt: null },
+        fieldHlc: Object.fromEntries(OBSERVATION_FIELDS.map((f) => [f, o.hlc])),
+        deletedAt: null,
+        deletedHlc: null,
+        ghost: false,
+        formerOwners: [],
+        dirty: true,
+      },
+      serverSeq: seq++,
+    }));
+    await db.query(RAW_UPSERT, upsertParams('observations', team.teamId, stamped));
   }
   return { rows: rows.length, seconds: (performance.now() - started) / 1000 };
 }
