@@ -12,7 +12,6 @@ import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
 import { parse as parseCsv } from 'csv-parse/sync';
-import { Client } from 'pg';
 import { v4 as uuidv4, v7 as uuidv7 } from 'uuid';
 
 import { HybridClock } from '../../shared/hlc';
@@ -29,6 +28,8 @@ import {
   shootBoth,
   signInThroughForm,
   watchErrors,
+  userIdOf,
+  teamFromLastSeason,
 } from './support';
 
 const server = ownServer(8494);
@@ -39,19 +40,7 @@ test.beforeAll(async () => {
 });
 test.afterAll(() => server.stop());
 
-const userIdOf = (token: string) => JSON.parse(Buffer.from(token.split('.')[1], 'base64url').toString('utf8')).sub as string;
 
-/** The team's start moved back (the server refuses notes from before a team existed), as review.spec.ts does. */
-async function teamFromLastSeason(teamId: string) {
-  const url = process.env.DATABASE_URL ?? readFileSync(path.resolve(__dirname, '../../.data/secrets/test-database-url'), 'utf8').trim();
-  const db = new Client({ connectionString: url });
-  await db.connect();
-  try {
-    await db.query(`UPDATE teams SET created_at = now() - interval '300 days' WHERE id = $1`, [teamId]);
-  } finally {
-    await db.end();
-  }
-}
 
 async function push(teamId: string, token: string, build: (upsert: (table: string, id: string, fields: Record<string, unknown>) => unknown) => unknown[]) {
   const clientId = uuidv4();

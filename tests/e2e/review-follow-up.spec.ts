@@ -12,10 +12,8 @@
  * - Anna's guardian sees the same, told it is read only, with no button that changes anything.
  * axe at both widths on each screen; screenshots review-follow-up, my-weeks-skater, my-weeks-guardian.
  */
-import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
-import { Client } from 'pg';
 import { v4 as uuidv4, v7 as uuidv7 } from 'uuid';
 
 import { HybridClock } from '../../shared/hlc';
@@ -34,6 +32,8 @@ import {
   signInThroughForm,
   signInToToday,
   watchErrors,
+  userIdOf,
+  teamFromLastSeason,
 } from './support';
 
 const server = ownServer(8492);
@@ -46,19 +46,7 @@ test.afterAll(() => server.stop());
 test.setTimeout(360_000);
 
 const DAY = 86_400_000;
-const userIdOf = (token: string) => JSON.parse(Buffer.from(token.split('.')[1], 'base64url').toString('utf8')).sub as string;
 
-/** The server refuses notes from before a team existed: the team is moved back a season (as review.spec.ts does). */
-async function teamFromLastSeason(teamId: string) {
-  const url = process.env.DATABASE_URL ?? readFileSync(path.resolve(__dirname, '../../.data/secrets/test-database-url'), 'utf8').trim();
-  const db = new Client({ connectionString: url });
-  await db.connect();
-  try {
-    await db.query(`UPDATE teams SET created_at = now() - interval '300 days' WHERE id = $1`, [teamId]);
-  } finally {
-    await db.end();
-  }
-}
 
 type Note = { weeksAgo: number; mark: 'needs_work' | 'good'; note?: string; shared?: boolean; id?: string };
 type Run = { weeksAgo: number; crossings: number[] };

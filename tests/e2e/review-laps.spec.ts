@@ -12,15 +12,13 @@
  * Side by side by default: A = R2, B = R3. Lap 2 (the third section) 28.55 - 29.20 = -0.65;
  * finish 1:50.60 - 1:52.02 = -1.42.
  */
-import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
-import { Client } from 'pg';
 import { v4 as uuidv4, v7 as uuidv7 } from 'uuid';
 
 import { HybridClock } from '../../shared/hlc';
 import { targetIdFor } from '../../shared/schemas/clock';
-import { apiCoachWithSkaters, checkA11yAtBothWidths, DESKTOP, expectTapTargetsAtLeast, ownServer, PHONE, settleLayout, shootBoth, SHOTS, signInThroughForm, watchErrors } from './support';
+import { apiCoachWithSkaters, checkA11yAtBothWidths, DESKTOP, expectTapTargetsAtLeast, ownServer, PHONE, settleLayout, shootBoth, SHOTS, signInThroughForm, teamFromLastSeason, userIdOf, watchErrors } from './support';
 
 const server = ownServer(8491);
 test.beforeAll(async () => {
@@ -31,19 +29,6 @@ test.afterAll(() => server.stop());
 
 const DAY = 86_400_000;
 const MINUS = '\u2212';
-const userIdOf = (token: string) => JSON.parse(Buffer.from(token.split('.')[1], 'base64url').toString('utf8')).sub as string;
-
-/** The server refuses records from before a team existed: the team is moved back to last season. */
-async function teamFromLastSeason(teamId: string) {
-  const url = process.env.DATABASE_URL ?? readFileSync(path.resolve(__dirname, '../../.data/secrets/test-database-url'), 'utf8').trim();
-  const db = new Client({ connectionString: url });
-  await db.connect();
-  try {
-    await db.query(`UPDATE teams SET created_at = now() - interval '300 days' WHERE id = $1`, [teamId]);
-  } finally {
-    await db.end();
-  }
-}
 
 type RunSeed = { daysAgo: number; crossings: number[]; status: 'finished' | 'stopped' };
 

@@ -21,6 +21,7 @@ import {
   signInThroughForm,
   signInToToday,
   syncNow,
+  userIdOf,
   watchErrors,
 } from './support';
 
@@ -30,7 +31,6 @@ test.afterAll(() => server.stop());
 
 const localDay = (d = new Date()) => `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, '0')}-${String(d.getDate()).padStart(2, '0')}`;
 const hlc = (node: string, counter: number) => `${String(Date.now()).padStart(15, '0')}-${String(counter).padStart(6, '0')}-${node}`;
-const userIdOf = (token: string) => JSON.parse(Buffer.from(token.split('.')[1], 'base64url').toString()).sub as string;
 
 async function push(token: string, teamId: string, ops: { table: string; recordId: string; fields: Record<string, unknown> }[]) {
   const clientId = uuidv4();

@@ -7,38 +7,17 @@
  * table too. At 390 px the same screen is stacked, every target at least 48 px. axe
  * checks both widths; screenshots 'review-skater' and 'review-week' are kept.
  */
-import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { expect, test, type Page } from '@playwright/test';
-import { Client } from 'pg';
 import { v4 as uuidv4, v7 as uuidv7 } from 'uuid';
 
 import { HybridClock } from '../../shared/hlc';
 import { weekOf } from '../../shared/weeks';
-import { apiCoachWithSkaters, DESKTOP, expectNoA11yViolations, expectTapTargetsAtLeast, PHONE, SHOTS, shootBoth, signInThroughForm, watchErrors } from './support';
+import { apiCoachWithSkaters, DESKTOP, expectNoA11yViolations, expectTapTargetsAtLeast, PHONE, SHOTS, shootBoth, signInThroughForm, teamFromLastSeason, userIdOf, watchErrors } from './support';
 
 const DAY = 86_400_000;
 
-/** The user id inside an access token (its `sub`), for the notes' author. */
-const userIdOf = (token: string) => JSON.parse(Buffer.from(token.split('.')[1], 'base64url').toString('utf8')).sub as string;
 
-/**
- * The team was made a minute ago, and the server refuses notes from before a team existed. A
- * squad that has kept notes for months is what the review is for: its start is moved back in the
- * test database (the one the e2e server uses: DATABASE_URL, or the file `scripts/test.sh --setup`
- * writes), as tests/integration/review-helpers.ts does.
- */
-async function teamFromLastSeason(teamId: string) {
-  const url =
-    process.env.DATABASE_URL ?? readFileSync(path.resolve(__dirname, '../../.data/secrets/test-database-url'), 'utf8').trim();
-  const db = new Client({ connectionString: url });
-  await db.connect();
-  try {
-    await db.query(`UPDATE teams SET created_at = now() - interval '300 days' WHERE id = $1`, [teamId]);
-  } finally {
-    await db.end();
-  }
-}
 
 type Note = { skaterId: string; weeksAgo: number; mark: 'needs_work' | 'good'; note?: string };
 

@@ -7,6 +7,7 @@ import { mkdirSync, readdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { expect, type Page } from '@playwright/test';
 import { simpleParser } from 'mailparser';
+import { Client } from 'pg';
 
 export const PHONE = { width: 390, height: 844 };
 export const DESKTOP = { width: 1440, height: 900 };
@@ -260,4 +261,24 @@ export async function expectTapTargetsAtLeast(page: Page, rootTestId: string, { 
     { min, fields },
   );
   expect(small, `tap targets under ${min} px inside ${rootTestId}:\n${small.join('\n')}`).toEqual([]);
+}
+
+/** The user id inside an access token (its `sub`), for a note's author. */
+export const userIdOf = (token: string) => JSON.parse(Buffer.from(token.split('.')[1], 'base64url').toString('utf8')).sub as string;
+
+/**
+ * The team was made a minute ago, and the server refuses records from before a team existed. A
+ * squad that has kept notes for months is what the review is for: its start is moved back in the
+ * test database (the one the e2e server uses: DATABASE_URL, or the file `scripts/test.sh --setup`
+ * writes), as tests/integration/review-helpers.ts does.
+ */
+export async function teamFromLastSeason(teamId: string) {
+  const url = process.env.DATABASE_URL ?? readFileSync(path.resolve(__dirname, '../../.data/secrets/test-database-url'), 'utf8').trim();
+  const db = new Client({ connectionString: url });
+  await db.connect();
+  try {
+    await db.query(`UPDATE teams SET created_at = now() - interval '300 days' WHERE id = $1`, [teamId]);
+  } finally {
+    await db.end();
+  }
 }
